@@ -4,6 +4,6 @@ import { defineConfig } from 'vitest/config';
 // PostgreSQL, the mail catcher and a running server before this runs.
 export default defineConfig({
   test: {
-    projects: ['packages/engine', 'backend', 'frontend'],
+    projects: ['packages/engine', 'backend', 'frontend', 'frontend/e2e'],
   },
 });
