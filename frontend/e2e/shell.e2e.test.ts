@@ -1,6 +1,12 @@
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { baseUrl, expectAccessible, forbidOtherHosts, launchBrowser, signIn } from './support/browser';
+import {
+  baseUrl,
+  expectAccessible,
+  forbidOtherHosts,
+  launchBrowser,
+  signIn,
+} from './support/browser';
 
 const LANDINGS = [
   { email: 'advisor@halden.example', path: '/advising', heading: 'Advising' },

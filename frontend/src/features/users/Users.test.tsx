@@ -1,0 +1,235 @@
+import { afterEach, describe, expect, it } from 'vitest';
+import { screen, waitFor, within } from '@testing-library/react';
+import userEvent from '@testing-library/user-event';
+import type { CreateUserRequest, CreateUserResponse, UserAccount } from '@kinpath/contracts';
+import { installFakeApi } from '../../test/fake-api';
+import { renderApp, signInAs } from '../../test/render';
+
+let api: ReturnType<typeof installFakeApi> | undefined;
+afterEach(() => api?.restore());
+
+const ACCOUNTS: UserAccount[] = [
+  {
+    id: '1',
+    email: 'registrar@halden.example',
+    displayName: 'Tobias Fenwright',
+    role: 'registrar',
+    department: null,
+    active: true,
+    createdAt: '2026-01-05T09:30:00.000Z',
+    updatedAt: '2026-01-05T09:30:00.000Z',
+    pendingInvitation: false,
+  },
+  {
+    id: '2',
+    email: 'head.cmp@halden.example',
+    displayName: 'Ruth Calloway',
+    role: 'department_head',
+    department: 'CMP',
+    active: true,
+    createdAt: '2026-01-06T10:00:00.000Z',
+    updatedAt: '2026-01-06T10:00:00.000Z',
+    pendingInvitation: false,
+  },
+  {
+    id: '3',
+    email: 'advisor.old@halden.example',
+    displayName: 'Albin Vesterby',
+    role: 'advisor',
+    department: null,
+    active: false,
+    createdAt: '2025-08-20T08:15:00.000Z',
+    updatedAt: '2025-08-20T08:15:00.000Z',
+    pendingInvitation: false,
+  },
+];
+
+function fakeUsersApi(accounts: UserAccount[]) {
+  const store = [...accounts];
+  return installFakeApi({
+    'GET /users': () => ({ status: 200, data: [...store] }),
+    'POST /users': ({ body }) => {
+      const request = body as CreateUserRequest;
+      if (store.some((u) => u.email === request.email)) {
+        return { status: 409, data: { statusCode: 409, message: 'Exists', error: 'Conflict' } };
+      }
+      const created: CreateUserResponse = {
+        id: String(store.length + 1),
+        email: request.email,
+        displayName: request.displayName,
+        role: request.role,
+        department: request.department ?? null,
+        active: true,
+        createdAt: '2026-02-01T12:00:00.000Z',
+        updatedAt: '2026-02-01T12:00:00.000Z',
+        pendingInvitation: false,
+        notice: null,
+      };
+      store.push(created);
+      return { status: 201, data: created };
+    },
+  });
+}
+
+const bodyRows = (table: HTMLElement) => within(table).getAllByRole('row').slice(1);
+const cellTexts = (row: HTMLElement) =>
+  within(row)
+    .getAllByRole('cell')
+    .map((cell) => cell.textContent);
+
+describe('users page', () => {
+  it('lists the accounts from GET /api/users, sorted by name', async () => {
+    api = fakeUsersApi(ACCOUNTS);
+    signInAs('admin');
+    renderApp('/admin/users');
+
+    const table = await screen.findByRole('table', { name: 'Accounts' });
+    const rows = bodyRows(table);
+    expect(rows.map(cellTexts)).toEqual([
+      ['Albin Vesterby', 'advisor.old@halden.example', 'Advisor', '—', 'Deactivated', '2025-08-20'],
+      [
+        'Ruth Calloway',
+        'head.cmp@halden.example',
+        'Department head',
+        'CMP',
+        'Active',
+        '2026-01-06',
+      ],
+      [
+        'Tobias Fenwright',
+        'registrar@halden.example',
+        'Registrar staff',
+        '—',
+        'Active',
+        '2026-01-05',
+      ],
+    ]);
+    expect(screen.getByText('3 accounts')).toBeInTheDocument();
+    expect(api.requests[0]).toMatchObject({
+      method: 'GET',
+      url: '/users',
+      authorization: 'Bearer token-for-admin',
+    });
+  });
+
+  it('sorts by a column and filters the rows', async () => {
+    api = fakeUsersApi(ACCOUNTS);
+    signInAs('admin');
+    renderApp('/admin/users');
+    const table = await screen.findByRole('table', { name: 'Accounts' });
+    const user = userEvent.setup();
+
+    await user.click(within(table).getByRole('button', { name: 'Created' }));
+    expect(bodyRows(table).map((row) => cellTexts(row)[5])).toEqual([
+      '2025-08-20',
+      '2026-01-05',
+      '2026-01-06',
+    ]);
+    expect(within(table).getByRole('columnheader', { name: 'Created' })).toHaveAttribute(
+      'aria-sort',
+      'ascending',
+    );
+
+    await user.type(screen.getByLabelText('Filter accounts'), 'calloway');
+    expect(bodyRows(table).map((row) => cellTexts(row)[0])).toEqual(['Ruth Calloway']);
+    expect(screen.getByText('1 of 3 accounts')).toBeInTheDocument();
+  });
+
+  it('checks the new account’s details before sending them', async () => {
+    api = fakeUsersApi(ACCOUNTS);
+    signInAs('admin');
+    renderApp('/admin/users');
+    await screen.findByRole('table', { name: 'Accounts' });
+    const form = within(screen.getByRole('region', { name: 'Add an account' }));
+    const user = userEvent.setup();
+
+    await user.type(form.getByLabelText('Name'), 'Mara Lindqvist');
+    await user.type(form.getByLabelText('E-mail'), 'mara@halden.example');
+    await user.selectOptions(form.getByLabelText('Role'), 'department_head');
+    await user.type(form.getByLabelText('Password'), 'short-pass');
+    await user.click(form.getByRole('button', { name: 'Create account' }));
+
+    expect(await form.findByText('Use at least 12 characters.')).toBeInTheDocument();
+    expect(
+      form.getByText('Enter the department code a head is responsible for.'),
+    ).toBeInTheDocument();
+    expect(api.requests.filter((r) => r.method === 'POST')).toHaveLength(0);
+  });
+
+  it('creates an account with POST /api/users and shows it in the table', async () => {
+    api = fakeUsersApi(ACCOUNTS);
+    signInAs('admin');
+    renderApp('/admin/users');
+    const table = await screen.findByRole('table', { name: 'Accounts' });
+    const form = within(screen.getByRole('region', { name: 'Add an account' }));
+    const user = userEvent.setup();
+
+    await user.type(form.getByLabelText('Name'), 'Mara Lindqvist');
+    await user.type(form.getByLabelText('E-mail'), 'mara@halden.example');
+    await user.selectOptions(form.getByLabelText('Role'), 'department_head');
+    await user.type(form.getByLabelText('Department code'), 'bio');
+    await user.type(form.getByLabelText('Password'), 'a-long-enough-secret');
+    await user.click(form.getByRole('button', { name: 'Create account' }));
+
+    expect(await form.findByRole('status')).toHaveTextContent(
+      'Account created for Mara Lindqvist (mara@halden.example).',
+    );
+    expect(api.requests.find((r) => r.method === 'POST')?.body).toEqual({
+      email: 'mara@halden.example',
+      displayName: 'Mara Lindqvist',
+      role: 'department_head',
+      department: 'BIO',
+      password: 'a-long-enough-secret',
+    });
+    await waitFor(() =>
+      expect(bodyRows(table).map((row) => cellTexts(row)[0])).toContain('Mara Lindqvist'),
+    );
+    expect(form.getByLabelText('Name')).toHaveValue('');
+  });
+
+  it('sends no department for other roles and reports a taken e-mail', async () => {
+    api = fakeUsersApi(ACCOUNTS);
+    signInAs('admin');
+    renderApp('/admin/users');
+    await screen.findByRole('table', { name: 'Accounts' });
+    const form = within(screen.getByRole('region', { name: 'Add an account' }));
+    const user = userEvent.setup();
+
+    await user.type(form.getByLabelText('Name'), 'Tobias Again');
+    await user.type(form.getByLabelText('E-mail'), 'registrar@halden.example');
+    await user.selectOptions(form.getByLabelText('Role'), 'registrar');
+    await user.type(form.getByLabelText('Password'), 'a-long-enough-secret');
+    await user.click(form.getByRole('button', { name: 'Create account' }));
+
+    expect(await form.findByRole('alert')).toHaveTextContent(
+      'An account with this e-mail address exists already.',
+    );
+    expect(api.requests.find((r) => r.method === 'POST')?.body).not.toHaveProperty('department');
+  });
+
+  it('tells a pending invitation from a deactivated account in words', async () => {
+    api = fakeUsersApi([
+      ...ACCOUNTS,
+      {
+        ...ACCOUNTS[0],
+        id: '9',
+        email: 'new.advisor@halden.example',
+        displayName: 'Yusuf Brandt',
+        role: 'advisor',
+        active: false,
+        pendingInvitation: true,
+      },
+    ]);
+    signInAs('admin');
+    renderApp('/admin/users');
+    const table = await screen.findByRole('table', { name: 'Accounts' });
+    const statuses = Object.fromEntries(
+      bodyRows(table).map((row) => [cellTexts(row)[0], cellTexts(row)[4]]),
+    );
+    expect(statuses).toMatchObject({
+      'Yusuf Brandt': 'Invitation pending',
+      'Albin Vesterby': 'Deactivated',
+      'Ruth Calloway': 'Active',
+    });
+  });
+});
