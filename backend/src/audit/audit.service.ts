@@ -1,0 +1,33 @@
+import { Injectable } from '@nestjs/common';
+import { InjectRepository } from '@nestjs/typeorm';
+import type { EntityManager, Repository } from 'typeorm';
+import type { User } from '../users/entities/user.entity';
+import type { AuditAction } from './audit-actions';
+import { AuditEvent } from './entities/audit-event.entity';
+
+export interface AuditEntry {
+  /** Who acted; null for a system action. An e-mail alone records an unknown or failed actor. */
+  actor: Pick<User, 'id' | 'email'> | { id?: null; email: string } | null;
+  action: AuditAction;
+  target?: string | null;
+  /** Never a password, a token or a student number. */
+  detail?: Record<string, unknown>;
+}
+
+@Injectable()
+export class AuditService {
+  constructor(@InjectRepository(AuditEvent) private readonly events: Repository<AuditEvent>) {}
+
+  /** Appends one event; pass `manager` to write it inside the caller's transaction. */
+  async record(entry: AuditEntry, manager?: EntityManager): Promise<void> {
+    const repository = manager ? manager.getRepository(AuditEvent) : this.events;
+    const event = repository.create({
+      actorId: entry.actor?.id ?? null,
+      actorEmail: entry.actor?.email ?? null,
+      action: entry.action,
+      target: entry.target ?? null,
+      detail: entry.detail ?? {},
+    });
+    await repository.save(event, { reload: false });
+  }
+}

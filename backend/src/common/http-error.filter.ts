@@ -1,0 +1,80 @@
+import type { ApiError } from '@kinpath/contracts';
+import {
+  ArgumentsHost,
+  Catch,
+  ExceptionFilter,
+  HttpException,
+  HttpStatus,
+  Logger,
+} from '@nestjs/common';
+import type { Response } from 'express';
+import { STATUS_CODES } from 'node:http';
+
+/**
+ * Every error leaves as `{ statusCode, message, error }` (api.md); anything not
+ * raised on purpose becomes a plain 500 and its details stay in the server log.
+ */
+@Catch()
+export class HttpErrorFilter implements ExceptionFilter {
+  private readonly logger = new Logger('HttpError');
+
+  catch(exception: unknown, host: ArgumentsHost): void {
+    const res = host.switchToHttp().getResponse<Response>();
+    const body = toApiError(exception);
+    if (body.statusCode >= 500 && !(exception instanceof HttpException)) {
+      // The message only: stacks and query parameters may hold values we must not log.
+      const error = exception as { name?: string; message?: string; code?: string };
+      this.logger.error(
+        `Unexpected ${error?.name ?? 'error'}${error?.code ? ` (${error.code})` : ''}: ${error?.message ?? String(exception)}`,
+      );
+    }
+    if (res.headersSent) return;
+    res.status(body.statusCode).json(body);
+  }
+}
+
+const JSON_PARSER_MESSAGE =
+  /in JSON at position \d+|^Unexpected end of JSON input$|^Unexpected token .*" is not valid JSON$/s;
+
+export function toApiError(exception: unknown): ApiError {
+  if (exception instanceof HttpException) {
+    const statusCode = exception.getStatus();
+    const response = exception.getResponse();
+    const error = STATUS_CODES[statusCode] ?? 'Error';
+    if (typeof response === 'string') return { statusCode, message: response, error };
+    // Nest turns the body parser's SyntaxError into a 400 carrying V8's wording.
+    if (statusCode === 400 && JSON_PARSER_MESSAGE.test(exception.message)) {
+      return { statusCode, message: 'The request body is not valid JSON.', error };
+    }
+    const { message, error: name } = response as { message?: string | string[]; error?: string };
+    return {
+      statusCode,
+      message: message ?? exception.message,
+      error: typeof name === 'string' ? name : error,
+    };
+  }
+  // Errors raised by Express middleware (body parser) carry their status.
+  const status = (exception as { status?: number; statusCode?: number })?.status;
+  if (typeof status === 'number' && status >= 400 && status < 500) {
+    const type = (exception as { type?: string }).type;
+    const message =
+      type === 'entity.parse.failed'
+        ? 'The request body is not valid JSON.'
+        : type === 'entity.too.large'
+          ? 'The request body is too large.'
+          : (STATUS_CODES[status] ?? 'Bad request');
+    return { statusCode: status, message, error: STATUS_CODES[status] ?? 'Error' };
+  }
+  if ((exception as { code?: string })?.code === '23505') {
+    return {
+      statusCode: HttpStatus.CONFLICT,
+      message: 'This conflicts with an existing entry.',
+      error: 'Conflict',
+    };
+  }
+  return {
+    statusCode: HttpStatus.INTERNAL_SERVER_ERROR,
+    message: 'Something went wrong on the server.',
+    error: 'Internal Server Error',
+  };
+}

@@ -1,0 +1,44 @@
+import { mkdtempSync, rmSync, statSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { ConfigError, loadConfig } from './config';
+import { readOrCreateSecret } from './secrets';
+
+const dataDir = mkdtempSync(join(tmpdir(), 'kinpath-config-'));
+afterAll(() => rmSync(dataDir, { recursive: true, force: true }));
+
+const base = { KINPATH_DB_PASSWORD: 'x', KINPATH_DATA_DIR: dataDir };
+
+describe('configuration', () => {
+  it('applies the documented defaults', () => {
+    const config = loadConfig(base);
+    expect(config.host).toBe('127.0.0.1');
+    expect(config.port).toBe(3000);
+    expect(config.database).toMatchObject({
+      host: '127.0.0.1',
+      port: 54329,
+      name: 'kinpath',
+      user: 'kinpath',
+    });
+    expect(config.demo).toBe(true);
+    expect(config.smtp).toEqual({ host: '127.0.0.1', port: 2525, from: 'kinpath@halden.example' });
+  });
+
+  it('refuses a missing database password and a bad port in one sentence', () => {
+    expect(() => loadConfig({ KINPATH_DATA_DIR: dataDir })).toThrow(ConfigError);
+    expect(() => loadConfig({ ...base, PORT: 'eighty' })).toThrow(/PORT must be a port number/);
+    expect(() => loadConfig({ ...base, KINPATH_DEMO: 'maybe' })).toThrow(/'on' or 'off'/);
+  });
+
+  it('reads KINPATH_DEMO=off', () => {
+    expect(loadConfig({ ...base, KINPATH_DEMO: 'off' }).demo).toBe(false);
+  });
+
+  it('creates a secret once, readable by the owner only', () => {
+    const first = readOrCreateSecret(dataDir, 'jwt-secret');
+    expect(first.length).toBeGreaterThanOrEqual(32);
+    expect(readOrCreateSecret(dataDir, 'jwt-secret')).toBe(first);
+    expect(statSync(join(dataDir, 'jwt-secret')).mode & 0o777).toBe(0o600);
+  });
+});

@@ -1,0 +1,145 @@
+import { mkdirSync } from 'node:fs';
+import { isAbsolute, resolve } from 'node:path';
+
+/** The repository root, found from this file in both `src/config` and `dist/config`. */
+export const REPO_ROOT = resolve(__dirname, '..', '..', '..');
+
+export type LogLevel = 'error' | 'warn' | 'log' | 'debug' | 'verbose';
+
+export interface DatabaseConfig {
+  host: string;
+  port: number;
+  name: string;
+  user: string;
+  password: string;
+}
+
+export interface AppConfig {
+  host: string;
+  port: number;
+  database: DatabaseConfig;
+  dataDir: string;
+  /** Undefined when the secret is to be read from or generated into the data folder. */
+  jwtSecret: string | undefined;
+  /** Undefined when the demo key of the data folder is to be used. */
+  pseudonymKey: string | undefined;
+  demo: boolean;
+  demoDir: string;
+  adminEmail: string | undefined;
+  adminPassword: string | undefined;
+  smtp: { host: string; port: number; from: string };
+  staticDir: string;
+  logLevel: LogLevel;
+}
+
+type Env = Record<string, string | undefined>;
+
+/** A setting that cannot be used; its message is one sentence naming the variable. */
+export class ConfigError extends Error {
+  override name = 'ConfigError';
+}
+
+function text(env: Env, name: string, fallback?: string): string | undefined {
+  const value = env[name]?.trim();
+  return value ? value : fallback;
+}
+
+function required(env: Env, name: string, why: string): string {
+  const value = text(env, name);
+  if (!value) throw new ConfigError(`${name} is not set: ${why}.`);
+  return value;
+}
+
+function port(env: Env, name: string, fallback: number): number {
+  const raw = text(env, name);
+  if (raw === undefined) return fallback;
+  const value = Number(raw);
+  if (!/^\d+$/.test(raw) || value < 1 || value > 65535) {
+    throw new ConfigError(`${name} must be a port number from 1 to 65535, not '${raw}'.`);
+  }
+  return value;
+}
+
+function folder(env: Env, name: string, fallback: string): string {
+  const value = text(env, name, fallback) as string;
+  return isAbsolute(value) ? value : resolve(process.cwd(), value);
+}
+
+function onOff(env: Env, name: string, fallback: boolean): boolean {
+  const raw = text(env, name)?.toLowerCase();
+  if (raw === undefined) return fallback;
+  if (['on', 'true', '1', 'yes'].includes(raw)) return true;
+  if (['off', 'false', '0', 'no'].includes(raw)) return false;
+  throw new ConfigError(`${name} must be 'on' or 'off', not '${raw}'.`);
+}
+
+const LOG_LEVELS: Record<string, LogLevel> = {
+  error: 'error',
+  warn: 'warn',
+  warning: 'warn',
+  log: 'log',
+  info: 'log',
+  debug: 'debug',
+  verbose: 'verbose',
+  trace: 'verbose',
+};
+
+/** Only what the database needs, so the migration CLI runs without the rest of the settings. */
+export function loadDatabaseConfig(env: Env = process.env): DatabaseConfig {
+  return {
+    host: text(env, 'KINPATH_DB_HOST', '127.0.0.1') as string,
+    port: port(env, 'KINPATH_DB_PORT', 54329),
+    name: text(env, 'KINPATH_DB_NAME', 'kinpath') as string,
+    user: text(env, 'KINPATH_DB_USER', 'kinpath') as string,
+    password: required(env, 'KINPATH_DB_PASSWORD', 'set it to the password of the database user'),
+  };
+}
+
+export function loadConfig(env: Env = process.env): AppConfig {
+  const rawLevel = text(env, 'KINPATH_LOG_LEVEL', 'log') as string;
+  const logLevel = LOG_LEVELS[rawLevel.toLowerCase()];
+  if (!logLevel) {
+    throw new ConfigError(
+      `KINPATH_LOG_LEVEL must be one of error, warn, log, debug or verbose, not '${rawLevel}'.`,
+    );
+  }
+  const jwtSecret = text(env, 'KINPATH_JWT_SECRET');
+  if (jwtSecret !== undefined && jwtSecret.length < 32) {
+    throw new ConfigError('KINPATH_JWT_SECRET must be at least 32 characters long.');
+  }
+  const pseudonymKey = text(env, 'KINPATH_PSEUDONYM_KEY');
+  if (pseudonymKey !== undefined && pseudonymKey.length < 16) {
+    throw new ConfigError('KINPATH_PSEUDONYM_KEY must be at least 16 characters long.');
+  }
+  const dataDir = folder(env, 'KINPATH_DATA_DIR', resolve(REPO_ROOT, '.data', 'start'));
+  try {
+    mkdirSync(dataDir, { recursive: true, mode: 0o700 });
+  } catch {
+    throw new ConfigError(`KINPATH_DATA_DIR (${dataDir}) cannot be created or written.`);
+  }
+  return {
+    host: text(env, 'HOST', '127.0.0.1') as string,
+    port: port(env, 'PORT', 3000),
+    database: loadDatabaseConfig(env),
+    dataDir,
+    jwtSecret,
+    pseudonymKey,
+    demo: onOff(env, 'KINPATH_DEMO', true),
+    demoDir: folder(env, 'KINPATH_DEMO_DIR', resolve(REPO_ROOT, '.data', 'demo')),
+    adminEmail: text(env, 'KINPATH_ADMIN_EMAIL')?.toLowerCase(),
+    adminPassword: env.KINPATH_ADMIN_PASSWORD || undefined,
+    smtp: {
+      host: text(env, 'KINPATH_SMTP_HOST', '127.0.0.1') as string,
+      port: port(env, 'KINPATH_SMTP_PORT', 2525),
+      from: text(env, 'KINPATH_MAIL_FROM', 'kinpath@halden.example') as string,
+    },
+    staticDir: folder(env, 'KINPATH_STATIC_DIR', resolve(REPO_ROOT, 'frontend', 'dist')),
+    logLevel,
+  };
+}
+
+/** Nest's logger shows the chosen level and every more severe one. */
+export function logLevelsFrom(level: LogLevel): LogLevel[] {
+  const order: LogLevel[] = ['error', 'warn', 'log', 'debug', 'verbose'];
+  return order.slice(0, order.indexOf(level) + 1);
+}

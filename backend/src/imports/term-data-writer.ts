@@ -1,0 +1,239 @@
+import { createReadStream } from 'node:fs';
+import { pipeline } from 'node:stream/promises';
+import { Transform } from 'node:stream';
+import type { ImportKind } from '@kinpath/contracts';
+import type { ClientBase } from 'pg';
+import { from as copyFrom } from 'pg-copy-streams';
+
+/** Term-data writes (commits, rollbacks, grade-scale changes) take this lock, one at a time. */
+export const TERM_DATA_LOCK = `SELECT pg_advisory_xact_lock(hashtext('kinpath:term-data'))`;
+
+interface TableSpec {
+  table: 'courses' | 'offerings' | 'students' | 'records';
+  key: string[];
+  /** Columns replaced on conflict, besides import_id. */
+  values: string[];
+}
+
+const TABLES: Record<ImportKind, TableSpec> = {
+  catalogue: {
+    table: 'courses',
+    key: ['course_code'],
+    values: ['title', 'department', 'credits', 'level', 'elective', 'prerequisites', 'description'],
+  },
+  offerings: { table: 'offerings', key: ['term', 'course_code'], values: ['sections', 'capacity'] },
+  students: { table: 'students', key: ['pseudonym'], values: ['program', 'entry_term', 'status'] },
+  records: {
+    table: 'records',
+    key: ['student_pseudonym', 'term', 'course_code'],
+    values: ['grade', 'grade_points', 'satisfaction', 'credits_attempted'],
+  },
+};
+
+/** The staging table of each kind: the columns validation writes, in its order. */
+const STAGE_COLUMNS: Record<ImportKind, string> = {
+  catalogue: `course_code text, title text, department text, credits numeric, level text,
+    elective boolean, prerequisites text, description text`,
+  offerings: `term text, course_code text, sections integer, capacity integer`,
+  students: `pseudonym text, program text, entry_term text, status text`,
+  records: `student_pseudonym text, term text, course_code text, grade text,
+    satisfaction smallint, credits_attempted numeric`,
+};
+
+/** Grade points as the grade scale gives them: a letter's points, a number as itself, a mark none. */
+export const GRADE_POINTS_SQL = (grade: string, scale: string) =>
+  `COALESCE(${scale}.points, CASE WHEN ${grade} ~ '^[0-9]' THEN ${grade}::numeric END)`;
+
+function selectFromStage(kind: ImportKind): string {
+  switch (kind) {
+    case 'catalogue':
+      return `SELECT course_code, title, department, credits, level, elective,
+        coalesce(prerequisites, ''), description, $1::uuid FROM import_stage`;
+    case 'offerings':
+      return `SELECT term, course_code, sections, capacity, $1::uuid FROM import_stage`;
+    case 'students':
+      return `SELECT pseudonym, program, entry_term, coalesce(status, 'active'), $1::uuid
+        FROM import_stage`;
+    case 'records':
+      return `SELECT s.student_pseudonym, s.term, s.course_code, s.grade,
+        ${GRADE_POINTS_SQL('s.grade', 'g')}, s.satisfaction, s.credits_attempted, $1::uuid
+        FROM import_stage s LEFT JOIN grade_scale g ON g.letter = s.grade`;
+  }
+}
+
+/**
+ * From this many rows on, the table's foreign keys are dropped for the write and
+ * added back (which checks every row in one join) inside the same transaction:
+ * far faster than one trigger call per row, at the price of holding the table
+ * exclusively for the commit. A failed check rolls the whole import back.
+ */
+export const BULK_ROWS = 100_000;
+
+async function suspendForeignKeys(client: ClientBase, table: string) {
+  await client.query(`LOCK TABLE ${table} IN ACCESS EXCLUSIVE MODE`);
+  const { rows } = await client.query<{ name: string; definition: string }>(
+    `SELECT conname AS name, pg_get_constraintdef(oid) AS definition FROM pg_constraint
+     WHERE conrelid = $1::regclass AND contype = 'f' ORDER BY conname`,
+    [table],
+  );
+  for (const fk of rows) await client.query(`ALTER TABLE ${table} DROP CONSTRAINT ${fk.name}`);
+  return {
+    async restore() {
+      for (const fk of rows) {
+        await client.query(`ALTER TABLE ${table} ADD CONSTRAINT ${fk.name} ${fk.definition}`);
+      }
+    },
+  };
+}
+
+export interface CommitCounts {
+  inserted: number;
+  replaced: number;
+  studentsCreated: number;
+}
+
+/**
+ * Writes the accepted rows of one import, inside the caller's transaction: COPY
+ * into a staging table, keep the old values of rows about to be replaced, then
+ * one set-based INSERT … ON CONFLICT DO UPDATE.
+ */
+export async function commitRows(
+  client: ClientBase,
+  importId: string,
+  kind: ImportKind,
+  acceptedPath: string,
+  onCopied?: (rows: number) => void,
+  onStep?: (step: string, ms: number) => void,
+): Promise<CommitCounts> {
+  const spec = TABLES[kind];
+  let mark = Date.now();
+  const step = (name: string) => {
+    const now = Date.now();
+    onStep?.(name, now - mark);
+    mark = now;
+  };
+  // Several imports may share one transaction (the demo), so the stage is dropped after use too.
+  await client.query(`DROP TABLE IF EXISTS pg_temp.import_stage`);
+  await client.query(`CREATE TEMP TABLE import_stage (${STAGE_COLUMNS[kind]}) ON COMMIT DROP`);
+  let copied = 0;
+  const counter = new Transform({
+    transform(chunk: Buffer, _encoding, done) {
+      for (let i = 0; i < chunk.length; i++) if (chunk[i] === 10) copied++;
+      if (onCopied && copied % 50_000 < 2_000) onCopied(copied);
+      done(null, chunk);
+    },
+  });
+  await pipeline(
+    createReadStream(acceptedPath, { highWaterMark: 1 << 20 }),
+    counter,
+    client.query(copyFrom(`COPY import_stage FROM STDIN WITH (FORMAT csv)`)),
+  );
+  onCopied?.(copied);
+  step('copy');
+  await client.query(`ANALYZE import_stage`);
+  step('analyze');
+
+  let studentsCreated = 0;
+  if (kind === 'records') {
+    // data.md: a record for a student not yet known creates that student as active.
+    const created = await client.query(
+      `INSERT INTO students (pseudonym, status, import_id)
+       SELECT DISTINCT student_pseudonym, 'active', $1::uuid FROM import_stage
+       ON CONFLICT (pseudonym) DO NOTHING`,
+      [importId],
+    );
+    studentsCreated = created.rowCount ?? 0;
+    step('students');
+  }
+
+  const keyJoin = spec.key.map((k) => `t.${k} = s.${k}`).join(' AND ');
+  const kept = await client.query(
+    `INSERT INTO import_changes (import_id, table_name, old_import_id, old_row)
+     SELECT $1::uuid, '${spec.table}', t.import_id, to_jsonb(t)
+     FROM ${spec.table} t JOIN import_stage s ON ${keyJoin}`,
+    [importId],
+  );
+  step('old values');
+  const columns = [...spec.key, ...spec.values, 'import_id'];
+  const bulk = copied >= BULK_ROWS ? await suspendForeignKeys(client, spec.table) : null;
+  step('suspend checks');
+  const written = await client.query(
+    `INSERT INTO ${spec.table} (${columns.join(', ')})
+     ${selectFromStage(kind)}
+     ORDER BY ${spec.key.map((_, i) => i + 1).join(', ')}
+     ON CONFLICT (${spec.key.join(', ')}) DO UPDATE SET
+     ${[...spec.values, 'import_id'].map((c) => `${c} = EXCLUDED.${c}`).join(', ')}`,
+    [importId],
+  );
+  step('upsert');
+  if (bulk) {
+    await bulk.restore();
+    step('re-check references');
+  }
+  await client.query(`DROP TABLE pg_temp.import_stage`);
+  const replaced = kept.rowCount ?? 0;
+  return { inserted: (written.rowCount ?? 0) - replaced, replaced, studentsCreated };
+}
+
+export interface RollbackBlocker {
+  importId: string;
+  kind: string;
+  createdAt: Date;
+}
+
+/** Later imports, still committed, that replaced rows this import wrote. */
+export async function rollbackBlockers(
+  client: ClientBase,
+  importId: string,
+): Promise<RollbackBlocker[]> {
+  const { rows } = await client.query<{ id: string; kind: string; created_at: Date }>(
+    `SELECT i.id, i.kind, i.created_at FROM imports i
+     WHERE i.status = 'committed' AND i.id <> $1::uuid
+       AND EXISTS (SELECT 1 FROM import_changes c WHERE c.import_id = i.id AND c.old_import_id = $1::uuid)
+     ORDER BY i.created_at`,
+    [importId],
+  );
+  return rows.map((r) => ({ importId: r.id, kind: r.kind, createdAt: r.created_at }));
+}
+
+/**
+ * Undoes one import inside the caller's transaction: rows it replaced get their
+ * old values back (updated in place, so references to them hold), then the rows
+ * that still carry its id, the ones it inserted, are deleted.
+ */
+export async function rollbackRows(
+  client: ClientBase,
+  importId: string,
+  kind: ImportKind,
+): Promise<{ restored: number; deleted: number }> {
+  const specs = kind === 'records' ? [TABLES.records, TABLES.students] : [TABLES[kind]];
+  let restored = 0;
+  let deleted = 0;
+  for (const spec of specs) {
+    const all = [...spec.values, 'import_id'];
+    const result = await client.query(
+      `UPDATE ${spec.table} t SET (${all.join(', ')}) = (${all.map((c) => `o.${c}`).join(', ')})
+       FROM (SELECT (jsonb_populate_record(NULL::${spec.table}, old_row)).*
+             FROM import_changes WHERE import_id = $1::uuid AND table_name = '${spec.table}') o
+       WHERE ${spec.key.map((k) => `t.${k} = o.${k}`).join(' AND ')}`,
+      [importId],
+    );
+    restored += result.rowCount ?? 0;
+    const removed = await client.query(`DELETE FROM ${spec.table} WHERE import_id = $1::uuid`, [
+      importId,
+    ]);
+    deleted += removed.rowCount ?? 0;
+  }
+  return { restored, deleted };
+}
+
+/** Re-derives every stored record's grade points from the current scale, in one statement. */
+export async function rederiveGradePoints(client: ClientBase): Promise<number> {
+  const result = await client.query(
+    `UPDATE records r SET grade_points = n.points
+     FROM (SELECT DISTINCT r.grade, ${GRADE_POINTS_SQL('r.grade', 'g')} AS points
+           FROM records r LEFT JOIN grade_scale g ON g.letter = r.grade) n
+     WHERE r.grade = n.grade AND r.grade_points IS DISTINCT FROM n.points`,
+  );
+  return result.rowCount ?? 0;
+}

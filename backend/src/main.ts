@@ -1,0 +1,87 @@
+import 'reflect-metadata';
+import { Logger, ValidationPipe } from '@nestjs/common';
+import { NestFactory } from '@nestjs/core';
+import type { NestExpressApplication } from '@nestjs/platform-express';
+import helmet from 'helmet';
+import { AppModule } from './app.module';
+import { ConfigError, loadConfig, logLevelsFrom, type AppConfig } from './config/config';
+import { SetupService } from './setup/setup.service';
+import { setUpOpenApi } from './web/openapi';
+import { serveSpa } from './web/spa';
+
+async function bootstrap(): Promise<void> {
+  let config: AppConfig;
+  try {
+    config = loadConfig();
+  } catch (error) {
+    if (error instanceof ConfigError) {
+      process.stderr.write(`Kinpath cannot start: ${error.message}\n`);
+      process.exit(1);
+    }
+    throw error;
+  }
+
+  const app = await NestFactory.create<NestExpressApplication>(AppModule, {
+    logger: logLevelsFrom(config.logLevel),
+    bodyParser: true,
+  });
+  app.enableShutdownHooks();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.useBodyParser('json', { limit: '1mb' });
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: false,
+        directives: {
+          defaultSrc: ["'self'"],
+          scriptSrc: ["'self'"],
+          // Emotion (MUI) writes style elements at run time.
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          imgSrc: ["'self'", 'data:'],
+          fontSrc: ["'self'"],
+          connectSrc: ["'self'"],
+          objectSrc: ["'none'"],
+          baseUri: ["'self'"],
+          formAction: ["'self'"],
+          frameAncestors: ["'none'"],
+        },
+      },
+    }),
+  );
+  app.setGlobalPrefix('api');
+  app.useGlobalPipes(
+    new ValidationPipe({ whitelist: true, forbidNonWhitelisted: true, transform: true }),
+  );
+  setUpOpenApi(app);
+  serveSpa(app, config.staticDir);
+
+  await app.listen(config.port, config.host);
+  announce(config, app.get(SetupService));
+}
+
+function announce(config: AppConfig, setup: SetupService): void {
+  const logger = new Logger('Kinpath');
+  const address = `http://${config.host.includes(':') ? `[${config.host}]` : config.host}:${config.port}`;
+  logger.log(`Kinpath is ready at ${address} (API documentation at ${address}/api/docs).`);
+  const demo = setup.outcome.demo;
+  if (demo) {
+    const lines = demo.accounts.map(
+      (a) => `  ${a.email.padEnd(28)} ${a.role}${a.department ? ` (${a.department})` : ''}`,
+    );
+    logger.log(
+      `Demo sign-ins, all with the password ${demo.password} (change them before real use):\n${lines.join('\n')}`,
+    );
+  }
+}
+
+bootstrap().catch((error: unknown) => {
+  const message =
+    error instanceof ConfigError
+      ? error.message
+      : error instanceof Error
+        ? `${error.name}: ${error.message}`
+        : String(error);
+  process.stderr.write(`Kinpath cannot start: ${message}\n`);
+  process.exit(1);
+});

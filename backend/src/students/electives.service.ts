@@ -1,0 +1,210 @@
+import type {
+  ElectiveEstimate,
+  ElectiveExplanation,
+  ElectivesResponse,
+  EstimateBasis,
+  ModelSettings,
+  SignalExplanation,
+} from '@kinpath/contracts';
+import { normalizeCourseCode } from '@kinpath/contracts';
+import {
+  CONFIDENCE_DESCRIPTION,
+  explain,
+  OUTCOME_DISCLOSURE_MIN,
+  predictStudent,
+  type CoursePrediction,
+  type Signal,
+} from '@kinpath/engine';
+import { ConflictException, Injectable, NotFoundException } from '@nestjs/common';
+import { AuditService } from '../audit/audit.service';
+import { engineSettings } from '../model/engine-settings';
+import type { CatalogueEntry, ModelSnapshot } from '../model/model-snapshot';
+import { ModelSettingsService } from '../model/model-settings.service';
+import { ModelService } from '../model/model.service';
+import type { User } from '../users/entities/user.entity';
+import { passedCourses, passRule, type PassRule } from './attempts';
+import { ineligibleReasons } from './eligibility';
+import { nearestLetter } from './grade-letters';
+import { StudentsService, type KnownStudent } from './students.service';
+import { auditAction, STUDENT_AUDIT } from './students-audit';
+
+type Actor = Pick<User, 'id' | 'email'>;
+
+/** Several signals' bases as one: kin only when every shown value comes from kin. */
+export function overallBasis(bases: EstimateBasis[]): EstimateBasis {
+  const shown = bases.filter((b) => b !== 'none');
+  if (shown.length === 0) return 'none';
+  return shown.every((b) => b === 'neighbours') ? 'neighbours' : 'baseline';
+}
+
+/** What an estimate rests on, for the explanation panel, in the settings' own terms. */
+export function methodDescription(settings: ModelSettings): ElectiveExplanation['method'] {
+  const measure =
+    settings.similarity === 'cosine'
+      ? `Cosine similarity of grades${settings.center ? " centred on each student's own average" : ''}`
+      : "Pearson correlation of grades over shared courses, centred on each student's own average";
+  const iuf = settings.iuf
+    ? ', with inverse user frequency so that courses nearly everyone takes count for little (Breese, Heckerman & Kadie, 1998)'
+    : '';
+  const significance =
+    settings.significance > 0
+      ? `; similarities resting on fewer than ${settings.significance} shared courses are scaled down (Herlocker et al., 1999)`
+      : '';
+  return {
+    name: 'User-based collaborative filtering with mean-centred weighted prediction (Resnick et al., 1994)',
+    similarity: `${measure}${iuf}${significance}.`,
+    description:
+      `Kinpath looks for past students whose grades in the courses they shared with this student followed a similar pattern (their kin), takes up to ${settings.k} of the most similar who took this course, and combines how each did in it relative to their own average, the more similar counting more. ` +
+      `With fewer than ${settings.minNeighbours} kin it uses the baseline instead: the course's overall results adjusted for this student's record.`,
+  };
+}
+
+/**
+ * Estimates for one student from the model in force: every elective of the
+ * catalogue with eligibility, and the explanation of one estimate.
+ */
+@Injectable()
+export class ElectivesService {
+  /** Pass rules per model: the grade scale only changes with a rebuild. */
+  private readonly rules = new WeakMap<ModelSnapshot, PassRule>();
+
+  constructor(
+    private readonly students: StudentsService,
+    private readonly model: ModelService,
+    private readonly settings: ModelSettingsService,
+    private readonly audit: AuditService,
+  ) {}
+
+  async electives(ref: string, term: string | undefined, actor: Actor): Promise<ElectivesResponse> {
+    const student = await this.students.find(ref);
+    const response = await this.estimates(student, term);
+    await this.audit.record({
+      actor,
+      action: auditAction(STUDENT_AUDIT.electivesViewed),
+      target: ref,
+      detail: { term: response.term, settingsVersion: response.settingsVersion },
+    });
+    return response;
+  }
+
+  /** Estimates for the student; only `courseCodes` (any catalogue course) when given. */
+  async estimates(
+    student: KnownStudent,
+    requestedTerm: string | undefined,
+    courseCodes?: readonly string[],
+  ): Promise<ElectivesResponse> {
+    const [snapshot, version, attempts] = await Promise.all([
+      this.model.current(),
+      this.settings.current(),
+      this.students.attempts(student.pseudonym),
+    ]);
+    const term = requestedTerm ?? snapshot.terms.next;
+    if (!term) {
+      throw new ConflictException('There is no term data yet, so there is no next term to plan for.');
+    }
+    const courses: CatalogueEntry[] = courseCodes
+      ? courseCodes.map((code) => snapshot.courses.get(code) as CatalogueEntry)
+      : [...snapshot.electives];
+    const passed = passedCourses(attempts, this.passRule(snapshot));
+    const offered = snapshot.offerings.get(term) ?? new Set<string>();
+    const prediction = predictStudent(
+      snapshot.model,
+      student.pseudonym,
+      courses.map((c) => c.courseCode),
+      engineSettings(version.settings),
+    );
+    const letters = snapshot.scale.toApi().letters;
+    const electives = courses.map((course, i) =>
+      this.estimate(course, prediction.predictions[i], passed, offered.has(course.courseCode), term, letters),
+    );
+    return {
+      term,
+      settingsVersion: version.version,
+      confidenceRule: CONFIDENCE_DESCRIPTION,
+      modelBuiltAt: snapshot.builtAt.toISOString(),
+      electives,
+    };
+  }
+
+  async explanation(ref: string, courseCodeParam: string): Promise<ElectiveExplanation> {
+    const student = await this.students.find(ref);
+    const [snapshot, version] = await Promise.all([this.model.current(), this.settings.current()]);
+    const code = normalizeCourseCode(courseCodeParam);
+    const course = code ? snapshot.courses.get(code) : undefined;
+    if (!course) throw new NotFoundException('This course is not in the catalogue.');
+    const settings = engineSettings(version.settings);
+    const letters = snapshot.scale.toApi().letters;
+    const signal = (s: Signal): SignalExplanation => {
+      const e = explain(snapshot.model, student.pseudonym, course.courseCode, settings, s, 5);
+      const who = s === 'grade' ? 'grades' : 'answers';
+      // e.kin names the other students: it stays here, only counts and ranges leave.
+      return {
+        value: e.value,
+        basis: e.basis,
+        kinCount: e.neighbours,
+        similarityRange: e.similarityRange,
+        spread: e.spread,
+        outcomes:
+          e.outcomes?.map((o) => ({
+            value: o.value,
+            label: s === 'grade' ? (nearestLetter(o.value, letters) ?? String(o.value)) : String(o.value),
+            count: o.count,
+          })) ?? null,
+        outcomesSuppressed: e.outcomes
+          ? null
+          : e.neighbours === 0
+            ? 'No similar past students took this course, so there are no results to show.'
+            : `Only ${e.neighbours} similar past ${e.neighbours === 1 ? 'student' : 'students'} contributed; their results are shown from ${OUTCOME_DISCLOSURE_MIN} on, so that no one's ${who} can be inferred.`,
+        sharedCourses: e.sharedCourses.map((c) => ({
+          courseCode: c.course,
+          title: snapshot.courses.get(c.course)?.title ?? c.course,
+          contribution: c.contribution,
+        })),
+      };
+    };
+    return {
+      courseCode: course.courseCode,
+      title: course.title,
+      settingsVersion: version.version,
+      method: methodDescription(version.settings),
+      disclosureMinimum: OUTCOME_DISCLOSURE_MIN,
+      grade: signal('grade'),
+      satisfaction: signal('satisfaction'),
+    };
+  }
+
+  private estimate(
+    course: CatalogueEntry,
+    p: CoursePrediction,
+    passed: ReadonlySet<string>,
+    offered: boolean,
+    term: string,
+    letters: { letter: string; points: number }[],
+  ): ElectiveEstimate {
+    const reasons = ineligibleReasons(course, passed, offered, term);
+    return {
+      courseCode: course.courseCode,
+      title: course.title,
+      department: course.department,
+      credits: course.credits,
+      offered,
+      eligible: reasons.length === 0,
+      ineligibleReasons: reasons,
+      predictedGrade: p.grade.value,
+      predictedGradeLetter: nearestLetter(p.grade.value, letters),
+      predictedSatisfaction: p.satisfaction.value,
+      fit: p.fit,
+      fitBasis: p.fitFrom,
+      confidence: p.confidence,
+      basis: overallBasis([p.grade.basis, p.satisfaction.basis]),
+      bases: { grade: p.grade.basis, satisfaction: p.satisfaction.basis },
+      neighbours: { grade: p.grade.neighbours, satisfaction: p.satisfaction.neighbours },
+    };
+  }
+
+  private passRule(snapshot: ModelSnapshot): PassRule {
+    let rule = this.rules.get(snapshot);
+    if (!rule) this.rules.set(snapshot, (rule = passRule(snapshot.scale)));
+    return rule;
+  }
+}

@@ -1,0 +1,54 @@
+import { DEPARTMENT_CODE_PATTERN, PASSWORD_MIN_LENGTH, ROLES, type Role } from '@kinpath/contracts';
+import { ApiProperty, ApiPropertyOptional } from '@nestjs/swagger';
+import { Transform } from 'class-transformer';
+import {
+  IsEmail,
+  IsIn,
+  IsOptional,
+  IsString,
+  Matches,
+  MaxLength,
+  MinLength,
+} from 'class-validator';
+
+const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
+
+export const PASSWORD_TOO_SHORT = `Password must be at least ${PASSWORD_MIN_LENGTH} characters.`;
+export const DEPARTMENT_FORM = 'Department must be a short upper-case code such as CMP.';
+
+export class CreateUserDto {
+  @ApiProperty({ example: 'advisor2@halden.example' })
+  @Transform(({ value }) => (typeof value === 'string' ? value.trim().toLowerCase() : value))
+  @IsEmail({}, { message: 'Email must be a valid e-mail address.' })
+  @MaxLength(254)
+  email: string;
+
+  @ApiProperty({ example: 'Morgan Ashby' })
+  @Transform(trim)
+  @IsString()
+  @MinLength(1, { message: 'Display name must not be empty.' })
+  @MaxLength(120)
+  displayName: string;
+
+  @ApiProperty({ enum: ROLES })
+  @IsIn(ROLES, { message: `Role must be one of ${ROLES.join(', ')}.` })
+  role: Role;
+
+  @ApiPropertyOptional({ example: 'CMP', description: 'Required for department_head.' })
+  @IsOptional()
+  @Transform(({ value }) => (typeof value === 'string' ? value.trim().toUpperCase() : value))
+  @IsString()
+  @Matches(DEPARTMENT_CODE_PATTERN, { message: DEPARTMENT_FORM })
+  department?: string;
+
+  @ApiPropertyOptional({
+    minLength: PASSWORD_MIN_LENGTH,
+    description:
+      'With a password the account is ready at once; without one it waits for an invitation.',
+  })
+  @IsOptional()
+  @IsString()
+  @MinLength(PASSWORD_MIN_LENGTH, { message: PASSWORD_TOO_SHORT })
+  @MaxLength(200)
+  password?: string;
+}
