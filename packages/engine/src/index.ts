@@ -1,1 +1,35 @@
-export const ENGINE_VERSION = '0.1.0';
+/**
+ * Kinpath engine: user-based memory collaborative filtering over course records.
+ * See README.md for the public surface and ../../docs or the design notes for the method.
+ */
+export * from './types';
+export { buildModel, RecordError } from './model';
+export type { Model } from './model';
+export {
+  resolveSettings,
+  similarities,
+  predictStudent,
+  predictSignal,
+  explain,
+  OUTCOME_DISCLOSURE_MIN,
+} from './api';
+export type { Explanation } from './api';
+export { CONFIDENCE_DESCRIPTION, CONFIDENCE_RULE, DEFAULT_SCALES } from './score';
+export { scoreBatch, toStudentPrediction, defaultWorkerPath } from './batch';
+export type { BatchRequest, BatchOptions, StudentScores, CompactSignal } from './batch';
+export { BASIS_NAMES, CONFIDENCE_NAMES } from './score';
+export { evaluate, HOLDOUT_MIN_EARLIER_RECORDS } from './evaluate';
+export type { EvaluationPlan, EvaluationReport, Metrics, SignalEvaluation } from './evaluate';
+export {
+  choiceProbabilities,
+  expectedLoad,
+  forecastDemand,
+  interval,
+  wape,
+  calibrateBeta,
+  BETA_GRID,
+  Z80,
+} from './forecast';
+export type { ForecastStudent, CourseDemand } from './forecast';
+export { generateUniversity, registrarTermOrder } from './generator';
+export type { University, UniversityOptions } from './generator';

@@ -1,0 +1,337 @@
+import { Model, similarityView } from './model';
+import {
+  BASIS_NAMES,
+  BASIS_NEIGHBOURS,
+  CONFIDENCE_NAMES,
+  DEFAULT_SCALES,
+  fitOf,
+  Scorer,
+  untakenCourses,
+} from './score';
+import {
+  Basis,
+  CoursePrediction,
+  DEFAULT_SETTINGS,
+  Kin,
+  Settings,
+  Signal,
+  SIGNALS,
+  SignalPrediction,
+  StudentPrediction,
+} from './types';
+
+/** Defaults filled in and every field checked; throws on a setting out of range. */
+export function resolveSettings(partial: Partial<Settings> = {}): Settings {
+  const s: Settings = { ...DEFAULT_SETTINGS, ...partial };
+  const bad = (what: string): never => {
+    throw new Error(`setting ${what} is out of range`);
+  };
+  if (!SIGNALS.includes(s.similaritySignal)) bad(`similaritySignal ${s.similaritySignal}`);
+  if (s.similarity !== 'cosine' && s.similarity !== 'pearson') bad(`similarity ${s.similarity}`);
+  if (!Number.isInteger(s.k) || s.k < 0) bad(`k ${s.k}`);
+  if (!Number.isInteger(s.minNeighbours) || s.minNeighbours < 0)
+    bad(`minNeighbours ${s.minNeighbours}`);
+  if (Number.isNaN(s.minSimilarity)) bad(`minSimilarity ${s.minSimilarity}`);
+  if (!Number.isInteger(s.significance) || s.significance < 0)
+    bad(`significance ${s.significance}`);
+  if (!(s.alpha >= 0 && s.alpha <= 1)) bad(`alpha ${s.alpha}`);
+  return s;
+}
+
+const scorers = new WeakMap<Model, Scorer>();
+/** The model's scorer (scratch arrays), made on first use. */
+export function scorerFor(model: Model): Scorer {
+  let s = scorers.get(model);
+  if (!s) {
+    s = new Scorer(model);
+    scorers.set(model, s);
+  }
+  return s;
+}
+
+function studentIdx(model: Model, student: string): number {
+  return model.studentIndex.get(student) ?? -1;
+}
+
+/**
+ * Kin of one student: everyone with similarity above minSimilarity, most similar first
+ * (ties by the smaller student key), at most `limit`.
+ */
+export function similarities(
+  model: Model,
+  student: string,
+  settings: Partial<Settings> = {},
+  limit = Infinity,
+): Kin[] {
+  const st = resolveSettings(settings);
+  const a = studentIdx(model, student);
+  const ws = scorerFor(model).ws;
+  ws.compute(a, st, true);
+  const rank = model.studentRank;
+  const ids: number[] = [];
+  if (st.minSimilarity < 0) {
+    for (let i = 0; i < model.studentKeys.length; i++) {
+      if (i !== a && ws.w[i] > st.minSimilarity) ids.push(i);
+    }
+  } else {
+    for (let t = 0; t < ws.nTouched; t++) {
+      const i = ws.touched[t];
+      if (i !== a && ws.w[i] > st.minSimilarity) ids.push(i);
+    }
+  }
+  ids.sort((x, y) => ws.w[y] - ws.w[x] || rank[x] - rank[y]);
+  return ids.slice(0, Math.min(ids.length, limit)).map((i) => ({
+    student: model.studentKeys[i],
+    similarity: ws.w[i],
+    overlap: ws.overlapOf(i),
+  }));
+}
+
+function signalPrediction(scorer: Scorer, s: Signal, t: number): SignalPrediction {
+  const o = scorer.out[s];
+  const v = o.value[t];
+  return {
+    value: v === v ? v : null,
+    neighbours: o.kin[t],
+    basis: BASIS_NAMES[o.basis[t]],
+    spread: o.basis[t] === BASIS_NEIGHBOURS ? o.spread[t] : null,
+    confidence: CONFIDENCE_NAMES[o.confidence[t]],
+  };
+}
+
+const FIT_FROM = ['both', 'grade', 'satisfaction'] as const;
+
+/**
+ * Both signals, fit and confidence for one student on the given courses (course keys; an
+ * unknown course gets basis 'none'). Without courses: every course the student has no value
+ * for in the similarity signal. An unknown student is a student with no records.
+ */
+export function predictStudent(
+  model: Model,
+  student: string,
+  courses?: readonly string[],
+  settings: Partial<Settings> = {},
+): StudentPrediction {
+  const st = resolveSettings(settings);
+  const a = studentIdx(model, student);
+  const targets = courses
+    ? Int32Array.from(courses, (c) => model.courseIndex.get(c) ?? -1)
+    : untakenCourses(model, a, st.similaritySignal);
+  const scorer = scorerFor(model);
+  scorer.score(a, targets, st, SIGNALS);
+  const gs = model.scales.grade ?? DEFAULT_SCALES.grade;
+  const ss = model.scales.satisfaction ?? DEFAULT_SCALES.satisfaction;
+  const predictions: CoursePrediction[] = [];
+  for (let t = 0; t < targets.length; t++) {
+    const grade = signalPrediction(scorer, 'grade', t);
+    const satisfaction = signalPrediction(scorer, 'satisfaction', t);
+    const [fit, from] = fitOf(
+      scorer.out.grade.value[t],
+      scorer.out.satisfaction.value[t],
+      st.alpha,
+      gs,
+      ss,
+    );
+    const conf =
+      from === 0
+        ? Math.min(scorer.out.grade.confidence[t], scorer.out.satisfaction.confidence[t])
+        : from === 1
+          ? scorer.out.grade.confidence[t]
+          : from === 2
+            ? scorer.out.satisfaction.confidence[t]
+            : 0;
+    predictions.push({
+      course: courses ? courses[t] : model.courseKeys[targets[t]],
+      grade,
+      satisfaction,
+      fit: fit === fit ? fit : null,
+      fitFrom: from >= 0 ? FIT_FROM[from] : null,
+      confidence: CONFIDENCE_NAMES[conf],
+    });
+  }
+  return { student, predictions };
+}
+
+/** One signal only (the command line's view): value, kin count and basis per course. */
+export function predictSignal(
+  model: Model,
+  student: string,
+  signal: Signal,
+  courses?: readonly string[],
+  settings: Partial<Settings> = {},
+): { course: string; value: number | null; neighbours: number; basis: Basis }[] {
+  const st = resolveSettings(settings);
+  const a = studentIdx(model, student);
+  const targets = courses
+    ? Int32Array.from(courses, (c) => model.courseIndex.get(c) ?? -1)
+    : untakenCourses(model, a, signal);
+  const scorer = scorerFor(model);
+  scorer.score(a, targets, st, [signal]);
+  const o = scorer.out[signal];
+  const res = [];
+  for (let t = 0; t < targets.length; t++) {
+    const v = o.value[t];
+    res.push({
+      course: courses ? courses[t] : model.courseKeys[targets[t]],
+      value: v === v ? v : null,
+      neighbours: o.kin[t],
+      basis: BASIS_NAMES[o.basis[t]],
+    });
+  }
+  return res;
+}
+
+/** Minimum contributing kin before their outcomes are shown (small-cell suppression). */
+export const OUTCOME_DISCLOSURE_MIN = 5;
+
+export interface Explanation {
+  student: string;
+  course: string;
+  signal: Signal;
+  value: number | null;
+  basis: Basis;
+  /** Contributing kin count. */
+  neighbours: number;
+  similarityRange: { min: number; max: number } | null;
+  spread: number | null;
+  /** Kin's values in the course; null when fewer than 5 contributed. */
+  outcomes: { value: number; count: number }[] | null;
+  /** Shared courses ranked by their summed share of the kin's similarities. */
+  sharedCourses: { course: string; contribution: number }[];
+  /**
+   * The neighbourhood itself, for audits and tests: weight = w / sum|w|. It names other
+   * students, so it is not for display.
+   */
+  kin: { student: string; similarity: number; weight: number; value: number; deviation: number }[];
+}
+
+/** Why one estimate is what it is (method.md, "Explanation of one prediction"). */
+export function explain(
+  model: Model,
+  student: string,
+  course: string,
+  settings: Partial<Settings> = {},
+  signal: Signal = 'grade',
+  topCourses = 5,
+): Explanation {
+  const st = resolveSettings(settings);
+  const a = studentIdx(model, student);
+  const j = model.courseIndex.get(course) ?? -1;
+  const scorer = scorerFor(model);
+  scorer.score(a, [j], st, [signal]);
+  const o = scorer.out[signal];
+  const n = o.kin[0];
+  const isKin = o.basis[0] === BASIS_NEIGHBOURS;
+  const d = model.signals[signal];
+  const kin: Explanation['kin'] = [];
+  let den = 0;
+  for (let q = 0; q < n; q++) den += Math.abs(scorer.slotW[signal][q]);
+  for (let q = 0; q < n; q++) {
+    const i = scorer.slotStudent[signal][q];
+    const w = scorer.slotW[signal][q];
+    const value = scorer.slotValue[signal][q];
+    kin.push({
+      student: model.studentKeys[i],
+      similarity: w,
+      weight: den > 0 ? w / den : 1 / n,
+      value,
+      deviation: value - d.mean[i],
+    });
+  }
+  let outcomes: Explanation['outcomes'] = null;
+  if (n >= OUTCOME_DISCLOSURE_MIN) {
+    const counts = new Map<number, number>();
+    for (const x of kin) counts.set(x.value, (counts.get(x.value) ?? 0) + 1);
+    outcomes = [...counts].sort((x, y) => x[0] - y[0]).map(([value, count]) => ({ value, count }));
+  }
+  const v = o.value[0];
+  return {
+    student,
+    course,
+    signal,
+    value: v === v ? v : null,
+    basis: BASIS_NAMES[o.basis[0]],
+    neighbours: n,
+    similarityRange: n
+      ? {
+          min: Math.min(...kin.map((x) => x.similarity)),
+          max: Math.max(...kin.map((x) => x.similarity)),
+        }
+      : null,
+    spread: isKin ? o.spread[0] : null,
+    outcomes,
+    sharedCourses:
+      a >= 0
+        ? sharedCourseTerms(
+            model,
+            a,
+            kin.map((x) => model.studentIndex.get(x.student) ?? -1),
+            st,
+            topCourses,
+          )
+        : [],
+    kin,
+  };
+}
+
+/**
+ * Per-course terms of each similarity, summed over the kin. For one neighbour the terms add
+ * up to w(a, i) (significance factor included).
+ */
+export function similarityTerms(
+  model: Model,
+  a: number,
+  i: number,
+  settings: Settings,
+): Map<number, number> {
+  const view = similarityView(model, settings);
+  const { data, f, rowX, norm } = view;
+  const { rowPtr, rowCourse } = data;
+  const terms = new Map<number, number>();
+  const pearson = settings.similarity === 'pearson';
+  let p = rowPtr[a];
+  let q = rowPtr[i];
+  let da = 0;
+  let di = 0;
+  let overlap = 0;
+  while (p < rowPtr[a + 1] && q < rowPtr[i + 1]) {
+    const ca = rowCourse[p];
+    const ci = rowCourse[q];
+    if (ca < ci) p++;
+    else if (ci < ca) q++;
+    else {
+      const fj = f[ca];
+      overlap++;
+      if (pearson) {
+        terms.set(ca, fj * rowX[p] * rowX[q]);
+        da += fj * rowX[p] * rowX[p];
+        di += fj * rowX[q] * rowX[q];
+      } else terms.set(ca, fj * rowX[p] * fj * rowX[q]);
+      p++;
+      q++;
+    }
+  }
+  const den = pearson ? Math.sqrt(da * di) : norm[a] * norm[i];
+  const g = settings.significance;
+  const factor = (den > 0 ? 1 / den : 0) * (g > 0 ? Math.min(overlap, g) / g : 1);
+  for (const [c, t] of terms) terms.set(c, t * factor);
+  return terms;
+}
+
+function sharedCourseTerms(
+  model: Model,
+  a: number,
+  kin: number[],
+  settings: Settings,
+  top: number,
+): { course: string; contribution: number }[] {
+  const sum = new Map<number, number>();
+  for (const i of kin) {
+    for (const [c, t] of similarityTerms(model, a, i, settings)) sum.set(c, (sum.get(c) ?? 0) + t);
+  }
+  return [...sum]
+    .filter(([, t]) => t > 0)
+    .sort((x, y) => y[1] - x[1] || x[0] - y[0])
+    .slice(0, top)
+    .map(([c, t]) => ({ course: model.courseKeys[c], contribution: t }));
+}

@@ -1,0 +1,427 @@
+import { BuildOptions, RecordsInput, Scale, Settings, Signal, SIGNALS, ValueColumn } from './types';
+
+/** Damping of the baseline means (method.md). */
+export const BASELINE_DAMPING = 5;
+
+/** A record the engine refuses, named by its index in the input arrays. */
+export class RecordError extends Error {
+  constructor(
+    readonly index: number,
+    readonly student: string,
+    readonly course: string,
+    readonly reason: string,
+  ) {
+    super(
+      `record ${index} (student ${JSON.stringify(student)}, course ${JSON.stringify(course)}): ${reason}`,
+    );
+    this.name = 'RecordError';
+  }
+}
+
+// Typed arrays live on SharedArrayBuffer so batch workers read the model without copying it.
+export function sharedI32(n: number): Int32Array {
+  return new Int32Array(new SharedArrayBuffer(Math.max(1, n) * 4)).subarray(0, n);
+}
+export function sharedF64(n: number): Float64Array {
+  return new Float64Array(new SharedArrayBuffer(Math.max(1, n) * 8)).subarray(0, n);
+}
+
+/** Validated, indexed records: the input of every model build (whole data or a training subset). */
+export interface RecordTable {
+  studentKeys: string[];
+  courseKeys: string[];
+  termKeys: string[]; // in term order
+  student: Int32Array;
+  course: Int32Array;
+  term: Int32Array; // rank in termKeys
+  values: Record<Signal, Float64Array>; // NaN = no value
+  scales: Partial<Record<Signal, Scale>>;
+}
+
+/** One signal's values, compressed by student and by course. */
+export interface SignalData {
+  rowPtr: Int32Array; // students + 1
+  rowCourse: Int32Array; // ascending within a row
+  rowValue: Float64Array;
+  colPtr: Int32Array; // courses + 1
+  colStudent: Int32Array; // ascending within a column
+  colValue: Float64Array;
+  /** m_u; the global mean for a student with no value. */
+  mean: Float64Array;
+  globalMean: number; // NaN when the signal has no value at all
+  courseMean: Float64Array; // NaN for a course with no value
+  courseBias: Float64Array; // damped b_j
+  studentBias: Float64Array; // damped b_u
+  /** Students with at least one value (N of the inverse user frequency). */
+  active: number;
+  // Derived arrays for similarity, computed on first use (see similarityView). Present from
+  // the start (as null) so every SignalData has one shape for the optimiser.
+  rowCentered: Float64Array | null;
+  colCentered: Float64Array | null;
+  iuf: Float64Array | null;
+  norms: Partial<Record<string, Float64Array>>;
+}
+
+export interface Model {
+  studentKeys: string[];
+  courseKeys: string[];
+  studentIndex: Map<string, number>;
+  courseIndex: Map<string, number>;
+  /** Rank of each student key in string order: the tie rule of the neighbourhood. */
+  studentRank: Int32Array;
+  signals: Record<Signal, SignalData>;
+  scales: Partial<Record<Signal, Scale>>;
+}
+
+function readValue(
+  col: ValueColumn | undefined,
+  r: number,
+  signal: Signal,
+  scale: Scale | undefined,
+  student: string,
+  course: string,
+): number {
+  if (!col) return NaN;
+  const v = col[r];
+  if (v === null || v === undefined) return NaN;
+  if (typeof v !== 'number') {
+    throw new RecordError(r, student, course, `${signal} ${JSON.stringify(v)} is not a number`);
+  }
+  if (Number.isNaN(v)) return NaN;
+  if (!Number.isFinite(v))
+    throw new RecordError(r, student, course, `${signal} ${v} is not finite`);
+  if (scale && (v < scale.min || v > scale.max)) {
+    throw new RecordError(
+      r,
+      student,
+      course,
+      `${signal} ${v} is outside the scale ${scale.min}..${scale.max}`,
+    );
+  }
+  return v;
+}
+
+function keyAt(
+  arr: ArrayLike<string>,
+  r: number,
+  what: string,
+  student: string,
+  course: string,
+): string {
+  const k = arr[r];
+  if (typeof k !== 'string' || k.length === 0) {
+    throw new RecordError(r, student, course, `empty ${what} key`);
+  }
+  return k;
+}
+
+/** Validate and index the input arrays. Throws RecordError on the first bad record. */
+export function buildTable(input: RecordsInput, options: BuildOptions = {}): RecordTable {
+  const n = input.students.length;
+  for (const [name, col] of [
+    ['courses', input.courses],
+    ['terms', input.terms],
+    ['grades', input.grades],
+    ['satisfaction', input.satisfaction],
+  ] as const) {
+    if (col && col.length !== n) {
+      throw new Error(`records input: ${name} has ${col.length} entries, students has ${n}`);
+    }
+  }
+  const scales = options.scales ?? {};
+  for (const s of SIGNALS) {
+    const sc = scales[s];
+    if (sc && !(Number.isFinite(sc.min) && Number.isFinite(sc.max) && sc.min < sc.max)) {
+      throw new Error(`${s} scale ${sc.min}..${sc.max} is not a range`);
+    }
+  }
+  const studentIndex = new Map<string, number>();
+  const courseIndex = new Map<string, number>();
+  const termIndex = new Map<string, number>();
+  const studentKeys: string[] = [];
+  const courseKeys: string[] = [];
+  const termKeysRaw: string[] = [];
+  const student = new Int32Array(n);
+  const course = new Int32Array(n);
+  const termRaw = new Int32Array(n);
+  const grade = new Float64Array(n);
+  const sat = new Float64Array(n);
+  for (let r = 0; r < n; r++) {
+    const sk = input.students[r];
+    const ck = input.courses[r];
+    const sName = typeof sk === 'string' ? sk : String(sk);
+    const cName = typeof ck === 'string' ? ck : String(ck);
+    const s = keyAt(input.students, r, 'student', sName, cName);
+    const c = keyAt(input.courses, r, 'course', sName, cName);
+    const t = keyAt(input.terms, r, 'term', sName, cName);
+    let si = studentIndex.get(s);
+    if (si === undefined) {
+      si = studentKeys.length;
+      studentIndex.set(s, si);
+      studentKeys.push(s);
+    }
+    let ci = courseIndex.get(c);
+    if (ci === undefined) {
+      ci = courseKeys.length;
+      courseIndex.set(c, ci);
+      courseKeys.push(c);
+    }
+    let ti = termIndex.get(t);
+    if (ti === undefined) {
+      ti = termKeysRaw.length;
+      termIndex.set(t, ti);
+      termKeysRaw.push(t);
+    }
+    student[r] = si;
+    course[r] = ci;
+    termRaw[r] = ti;
+    grade[r] = readValue(input.grades, r, 'grade', scales.grade, s, c);
+    sat[r] = readValue(input.satisfaction, r, 'satisfaction', scales.satisfaction, s, c);
+  }
+  const cmp = options.compareTerms ?? ((a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0));
+  const order = termKeysRaw.map((_, i) => i).sort((a, b) => cmp(termKeysRaw[a], termKeysRaw[b]));
+  const rankOf = new Int32Array(order.length);
+  // Terms that compare equal share a rank.
+  let rank = -1;
+  for (let p = 0; p < order.length; p++) {
+    if (p === 0 || cmp(termKeysRaw[order[p - 1]], termKeysRaw[order[p]]) !== 0) rank++;
+    rankOf[order[p]] = rank;
+  }
+  const termKeys = order.map((i) => termKeysRaw[i]);
+  const term = new Int32Array(n);
+  for (let r = 0; r < n; r++) term[r] = rankOf[termRaw[r]];
+  return {
+    studentKeys,
+    courseKeys,
+    termKeys,
+    student,
+    course,
+    term,
+    values: { grade, satisfaction: sat },
+    scales,
+  };
+}
+
+/** Stable counting sort of `idx` by key(idx) in [0, buckets). */
+function countingSort(idx: Int32Array, key: Int32Array, buckets: number): Int32Array {
+  const count = new Int32Array(buckets + 1);
+  for (let p = 0; p < idx.length; p++) count[key[idx[p]] + 1]++;
+  for (let b = 0; b < buckets; b++) count[b + 1] += count[b];
+  const out = new Int32Array(idx.length);
+  for (let p = 0; p < idx.length; p++) out[count[key[idx[p]]]++] = idx[p];
+  return out;
+}
+
+function buildSignal(table: RecordTable, signal: Signal, mask: Uint8Array | null): SignalData {
+  const S = table.studentKeys.length;
+  const C = table.courseKeys.length;
+  const vals = table.values[signal];
+  let m = 0;
+  for (let r = 0; r < vals.length; r++) if (vals[r] === vals[r] && (!mask || mask[r])) m++;
+  const idx = new Int32Array(m);
+  m = 0;
+  for (let r = 0; r < vals.length; r++) if (vals[r] === vals[r] && (!mask || mask[r])) idx[m++] = r;
+  // By student, then course, then input order: the last of a run with the greatest term wins.
+  const byStudent = countingSort(countingSort(idx, table.course, C), table.student, S);
+  const rowPtr = sharedI32(S + 1);
+  let nnz = 0;
+  for (let p = 0; p < byStudent.length; p++) {
+    const r = byStudent[p];
+    const q = p + 1 < byStudent.length ? byStudent[p + 1] : -1;
+    if (q < 0 || table.student[q] !== table.student[r] || table.course[q] !== table.course[r])
+      nnz++;
+  }
+  const rowCourse = sharedI32(nnz);
+  const rowValue = sharedF64(nnz);
+  let e = 0;
+  let best = -1;
+  for (let p = 0; p < byStudent.length; p++) {
+    const r = byStudent[p];
+    if (best < 0 || table.term[r] >= table.term[best]) best = r;
+    const q = p + 1 < byStudent.length ? byStudent[p + 1] : -1;
+    if (q < 0 || table.student[q] !== table.student[r] || table.course[q] !== table.course[r]) {
+      rowCourse[e] = table.course[best];
+      rowValue[e] = vals[best];
+      rowPtr[table.student[best] + 1]++;
+      e++;
+      best = -1;
+    }
+  }
+  for (let s = 0; s < S; s++) rowPtr[s + 1] += rowPtr[s];
+  // Transpose: students ascend within each course column.
+  const colPtr = sharedI32(C + 1);
+  for (let p = 0; p < nnz; p++) colPtr[rowCourse[p] + 1]++;
+  for (let c = 0; c < C; c++) colPtr[c + 1] += colPtr[c];
+  const fill = colPtr.slice(0, C);
+  const colStudent = sharedI32(nnz);
+  const colValue = sharedF64(nnz);
+  for (let s = 0; s < S; s++) {
+    for (let p = rowPtr[s]; p < rowPtr[s + 1]; p++) {
+      const q = fill[rowCourse[p]]++;
+      colStudent[q] = s;
+      colValue[q] = rowValue[p];
+    }
+  }
+  // Means and the damped baseline.
+  let total = 0;
+  for (let p = 0; p < nnz; p++) total += rowValue[p];
+  const globalMean = nnz > 0 ? total / nnz : NaN;
+  const mean = sharedF64(S);
+  let active = 0;
+  for (let s = 0; s < S; s++) {
+    const a = rowPtr[s];
+    const b = rowPtr[s + 1];
+    if (b > a) {
+      let sum = 0;
+      for (let p = a; p < b; p++) sum += rowValue[p];
+      mean[s] = sum / (b - a);
+      active++;
+    } else mean[s] = globalMean;
+  }
+  const courseMean = sharedF64(C);
+  const courseBias = sharedF64(C);
+  for (let c = 0; c < C; c++) {
+    const a = colPtr[c];
+    const b = colPtr[c + 1];
+    let sum = 0;
+    let dev = 0;
+    for (let p = a; p < b; p++) {
+      sum += colValue[p];
+      dev += colValue[p] - globalMean;
+    }
+    courseMean[c] = b > a ? sum / (b - a) : NaN;
+    courseBias[c] = b > a ? dev / (b - a + BASELINE_DAMPING) : 0;
+  }
+  const studentBias = sharedF64(S);
+  for (let s = 0; s < S; s++) {
+    const a = rowPtr[s];
+    const b = rowPtr[s + 1];
+    let dev = 0;
+    for (let p = a; p < b; p++) dev += rowValue[p] - globalMean - courseBias[rowCourse[p]];
+    studentBias[s] = b > a ? dev / (b - a + BASELINE_DAMPING) : 0;
+  }
+  return {
+    rowPtr,
+    rowCourse,
+    rowValue,
+    colPtr,
+    colStudent,
+    colValue,
+    mean,
+    globalMean,
+    courseMean,
+    courseBias,
+    studentBias,
+    active,
+    rowCentered: null,
+    colCentered: null,
+    iuf: null,
+    norms: {},
+  };
+}
+
+/** Rank of every student key in string (UTF-16 code unit) order. */
+function keyRanks(keys: string[]): Int32Array {
+  const order = keys
+    .map((_, i) => i)
+    .sort((a, b) => (keys[a] < keys[b] ? -1 : keys[a] > keys[b] ? 1 : 0));
+  const rank = sharedI32(keys.length);
+  for (let p = 0; p < order.length; p++) rank[order[p]] = p;
+  return rank;
+}
+
+/** Build a model from a table, optionally from the records where mask[r] is 1 (a training set). */
+export function modelFromTable(table: RecordTable, mask: Uint8Array | null = null): Model {
+  const studentIndex = new Map<string, number>();
+  table.studentKeys.forEach((k, i) => studentIndex.set(k, i));
+  const courseIndex = new Map<string, number>();
+  table.courseKeys.forEach((k, i) => courseIndex.set(k, i));
+  return {
+    studentKeys: table.studentKeys,
+    courseKeys: table.courseKeys,
+    studentIndex,
+    courseIndex,
+    studentRank: keyRanks(table.studentKeys),
+    signals: {
+      grade: buildSignal(table, 'grade', mask),
+      satisfaction: buildSignal(table, 'satisfaction', mask),
+    },
+    scales: table.scales,
+  };
+}
+
+/**
+ * Build the model from records: validates every record (throws RecordError naming the first
+ * bad one), keeps per signal the most recent attempt that carries a value (ties: the later
+ * record), and compresses by student and by course. Refresh by building anew.
+ */
+export function buildModel(input: RecordsInput, options: BuildOptions = {}): Model {
+  return modelFromTable(buildTable(input, options));
+}
+
+/** The arrays the similarity needs for given settings; computed once per model and kept. */
+export interface SimilarityView {
+  data: SignalData;
+  f: Float64Array; // f_j (all ones when IUF is off)
+  rowX: Float64Array; // x_uj in student order
+  colX: Float64Array; // x_uj in course order
+  norm: Float64Array; // sqrt(sum_j (f_j x_uj)^2) over the student's own courses
+}
+
+export function similarityView(model: Model, settings: Settings): SimilarityView {
+  const d = model.signals[settings.similaritySignal];
+  const C = model.courseKeys.length;
+  const S = model.studentKeys.length;
+  if (!d.iuf) {
+    const iuf = sharedF64(C);
+    for (let c = 0; c < C; c++) {
+      const n = d.colPtr[c + 1] - d.colPtr[c];
+      iuf[c] = n > 0 ? Math.log(d.active / n) : 0;
+    }
+    d.iuf = iuf;
+  }
+  if (!d.rowCentered || !d.colCentered) {
+    const rc = sharedF64(d.rowValue.length);
+    for (let s = 0; s < S; s++) {
+      for (let p = d.rowPtr[s]; p < d.rowPtr[s + 1]; p++) rc[p] = d.rowValue[p] - d.mean[s];
+    }
+    const cc = sharedF64(d.colValue.length);
+    for (let p = 0; p < cc.length; p++) cc[p] = d.colValue[p] - d.mean[d.colStudent[p]];
+    d.rowCentered = rc;
+    d.colCentered = cc;
+  }
+  const center = settings.similarity === 'pearson' || settings.center;
+  const f = settings.iuf ? (d.iuf as Float64Array) : ones(C);
+  const rowX = center ? (d.rowCentered as Float64Array) : d.rowValue;
+  const colX = center ? (d.colCentered as Float64Array) : d.colValue;
+  const key = `${settings.iuf ? 1 : 0}${center ? 1 : 0}`;
+  let norm = d.norms[key];
+  if (!norm) {
+    norm = sharedF64(S);
+    for (let s = 0; s < S; s++) {
+      let sum = 0;
+      for (let p = d.rowPtr[s]; p < d.rowPtr[s + 1]; p++) {
+        const t = f[d.rowCourse[p]] * rowX[p];
+        sum += t * t;
+      }
+      norm[s] = Math.sqrt(sum);
+    }
+    d.norms[key] = norm;
+  }
+  return { data: d, f, rowX, colX, norm };
+}
+
+const onesCache = new Map<number, Float64Array>();
+function ones(n: number): Float64Array {
+  let a = onesCache.get(n);
+  if (!a) {
+    a = sharedF64(n).fill(1);
+    onesCache.set(n, a);
+  }
+  return a;
+}
+
+/** Every derived array for the given settings, so that a snapshot carries them to workers. */
+export function prepare(model: Model, settings: Settings): void {
+  similarityView(model, settings);
+}

@@ -1,0 +1,234 @@
+import { Model, similarityView, SimilarityView } from './model';
+import { Settings } from './types';
+
+/**
+ * Scratch arrays for one student's similarities, sized to the model and reused across calls
+ * (one per thread). After `compute`, `w[i]` holds w(a, i) for every student (0 when nothing is
+ * shared) and `touched[0..nTouched)` lists the students that share a weighted course with a.
+ */
+export class SimilarityWorkspace {
+  readonly w: Float64Array;
+  readonly overlap: Int32Array;
+  readonly touched: Int32Array;
+  nTouched = 0;
+  /** Courses of a with f_j = 0: every student with a value has them, so they add to every overlap. */
+  zeroCourses = 0;
+  student = -1;
+  view: SimilarityView | null = null;
+  private readonly num: Float64Array;
+  private readonly da: Float64Array;
+  private readonly di: Float64Array;
+  private readonly seen: Int32Array;
+  private epoch = 0;
+
+  constructor(readonly model: Model) {
+    const S = model.studentKeys.length;
+    this.w = new Float64Array(S);
+    this.overlap = new Int32Array(S);
+    this.touched = new Int32Array(S);
+    this.num = new Float64Array(S);
+    this.da = new Float64Array(S);
+    this.di = new Float64Array(S);
+    this.seen = new Int32Array(S);
+  }
+
+  /** Overlap |I_a ∩ I_i| in the similarity signal, valid after compute(..., true). */
+  overlapOf(i: number): number {
+    if (this.seen[i] === this.epoch) return this.overlap[i] + this.zeroCourses;
+    const d = this.view?.data;
+    return d && d.rowPtr[i + 1] > d.rowPtr[i] ? this.zeroCourses : 0;
+  }
+
+  /** Similarities of student a (index, or -1 for a student without records) to everyone. */
+  compute(a: number, settings: Settings, needOverlap: boolean): void {
+    const { w, touched } = this;
+    for (let t = 0; t < this.nTouched; t++) w[touched[t]] = 0;
+    this.nTouched = 0;
+    this.zeroCourses = 0;
+    this.student = a;
+    this.epoch++;
+    if (this.epoch > 0x3fffffff) {
+      this.seen.fill(0);
+      this.epoch = 1;
+    }
+    const view = similarityView(this.model, settings);
+    this.view = view;
+    if (a < 0) return;
+    if (settings.significance > 0) needOverlap = true;
+    const { data, f, rowX, colX, norm } = view;
+    const pearson = settings.similarity === 'pearson';
+    const acc = pearson ? accumulatePearson : accumulateCosine;
+    const packed = acc(
+      data.rowPtr,
+      data.rowCourse,
+      data.colPtr,
+      data.colStudent,
+      f,
+      rowX,
+      colX,
+      a,
+      needOverlap,
+      this.seen,
+      this.epoch,
+      this.touched,
+      this.num,
+      this.da,
+      this.di,
+      this.overlap,
+    );
+    // The accumulators return touched count * 2^20 + zero-IUF course count.
+    const n = Math.floor(packed / 1048576);
+    this.zeroCourses = packed - n * 1048576;
+    this.nTouched = n;
+    finish(
+      pearson,
+      a,
+      n,
+      this.touched,
+      this.num,
+      this.da,
+      this.di,
+      this.overlap,
+      norm,
+      settings.significance,
+      this.zeroCourses,
+      this.w,
+    );
+  }
+}
+
+// The hot loops live in plain functions over typed arrays so the optimiser sees one shape.
+
+function accumulateCosine(
+  rowPtr: Int32Array,
+  rowCourse: Int32Array,
+  colPtr: Int32Array,
+  colStudent: Int32Array,
+  f: Float64Array,
+  rowX: Float64Array,
+  colX: Float64Array,
+  a: number,
+  needOverlap: boolean,
+  seen: Int32Array,
+  epoch: number,
+  touched: Int32Array,
+  num: Float64Array,
+  _da: Float64Array,
+  _di: Float64Array,
+  overlap: Int32Array,
+): number {
+  let n = 0;
+  let zero = 0;
+  for (let p = rowPtr[a]; p < rowPtr[a + 1]; p++) {
+    const j = rowCourse[p];
+    const fj = f[j];
+    // A course everyone has (f_j = 0) adds nothing to any sum; count it for overlaps only.
+    if (fj === 0) {
+      zero++;
+      continue;
+    }
+    const xa = rowX[p];
+    if (xa === 0 && !needOverlap) continue;
+    const c = fj * fj * xa;
+    const end = colPtr[j + 1];
+    for (let q = colPtr[j]; q < end; q++) {
+      const i = colStudent[q];
+      if (seen[i] !== epoch) {
+        seen[i] = epoch;
+        touched[n++] = i;
+        num[i] = 0;
+        overlap[i] = 0;
+      }
+      num[i] += c * colX[q];
+      overlap[i]++;
+    }
+  }
+  return n * 1048576 + zero;
+}
+
+function accumulatePearson(
+  rowPtr: Int32Array,
+  rowCourse: Int32Array,
+  colPtr: Int32Array,
+  colStudent: Int32Array,
+  f: Float64Array,
+  rowX: Float64Array,
+  colX: Float64Array,
+  a: number,
+  _needOverlap: boolean,
+  seen: Int32Array,
+  epoch: number,
+  touched: Int32Array,
+  num: Float64Array,
+  da: Float64Array,
+  di: Float64Array,
+  overlap: Int32Array,
+): number {
+  let n = 0;
+  let zero = 0;
+  for (let p = rowPtr[a]; p < rowPtr[a + 1]; p++) {
+    const j = rowCourse[p];
+    const fj = f[j];
+    if (fj === 0) {
+      zero++;
+      continue;
+    }
+    const xa = rowX[p];
+    const c = fj * xa;
+    const caa = c * xa;
+    const end = colPtr[j + 1];
+    for (let q = colPtr[j]; q < end; q++) {
+      const i = colStudent[q];
+      if (seen[i] !== epoch) {
+        seen[i] = epoch;
+        touched[n++] = i;
+        num[i] = 0;
+        da[i] = 0;
+        di[i] = 0;
+        overlap[i] = 0;
+      }
+      const xi = colX[q];
+      num[i] += c * xi;
+      da[i] += caa;
+      di[i] += fj * xi * xi;
+      overlap[i]++;
+    }
+  }
+  return n * 1048576 + zero;
+}
+
+function finish(
+  pearson: boolean,
+  a: number,
+  n: number,
+  touched: Int32Array,
+  num: Float64Array,
+  da: Float64Array,
+  di: Float64Array,
+  overlap: Int32Array,
+  norm: Float64Array,
+  g: number,
+  zeroCourses: number,
+  w: Float64Array,
+): void {
+  const na = norm[a];
+  for (let t = 0; t < n; t++) {
+    const i = touched[t];
+    let s = 0;
+    if (i !== a) {
+      let den: number;
+      if (pearson) {
+        den = da[i] * di[i];
+        if (den > 0) s = num[i] / Math.sqrt(den);
+      } else {
+        den = na * norm[i];
+        if (den > 0) s = num[i] / den;
+      }
+      // Rounding can push a perfect match a hair past 1.
+      if (s > 1) s = 1;
+      else if (s < -1) s = -1;
+      if (g > 0) s *= Math.min(overlap[i] + zeroCourses, g) / g;
+    }
+    w[i] = s;
+  }
+}
