@@ -15,6 +15,12 @@ export default tseslint.config(
     },
   },
   {
+    // Plain CommonJS scripts (benchmarks, the CLI shim) load their modules with require.
+    files: ['**/*.js', '**/*.cjs'],
+    languageOptions: { sourceType: 'commonjs' },
+    rules: { '@typescript-eslint/no-require-imports': 'off' },
+  },
+  {
     files: ['frontend/**/*.{ts,tsx}'],
     languageOptions: { globals: { ...globals.browser } },
     plugins: { 'react-hooks': reactHooks },
