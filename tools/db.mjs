@@ -7,7 +7,15 @@
 //   node tools/db.mjs stop  [--profile start|test]
 //   node tools/db.mjs status [--profile start|test]
 import { randomBytes } from 'node:crypto';
-import { chmodSync, existsSync, mkdirSync, readFileSync, readdirSync, writeFileSync, appendFileSync } from 'node:fs';
+import {
+  chmodSync,
+  existsSync,
+  mkdirSync,
+  readFileSync,
+  readdirSync,
+  writeFileSync,
+  appendFileSync,
+} from 'node:fs';
 import { join } from 'node:path';
 import { spawnSync } from 'node:child_process';
 import { pathToFileURL } from 'node:url';
@@ -23,7 +31,10 @@ function findServerBin() {
   const base = '/usr/lib/postgresql';
   if (!existsSync(base)) return null;
   const versions = readdirSync(base)
-    .filter((v) => existsSync(join(base, v, 'bin', 'initdb')) && existsSync(join(base, v, 'bin', 'pg_ctl')))
+    .filter(
+      (v) =>
+        existsSync(join(base, v, 'bin', 'initdb')) && existsSync(join(base, v, 'bin', 'pg_ctl')),
+    )
     .sort((a, b) => Number(b) - Number(a));
   return versions.length ? join(base, versions[0], 'bin') : null;
 }
@@ -33,20 +44,27 @@ export function serverBin() {
   if (!bin) {
     aptInstall(['postgresql'], 'the PostgreSQL server');
     bin = findServerBin();
-    if (!bin) fail('PostgreSQL was installed but its server binaries were not found under /usr/lib/postgresql.');
+    if (!bin)
+      fail(
+        'PostgreSQL was installed but its server binaries were not found under /usr/lib/postgresql.',
+      );
   }
   return bin;
 }
 
 /** Runs a PostgreSQL binary as the cluster's owner: `postgres` when we are root, ourselves otherwise. */
 function asOwner(command, args, options = {}) {
-  const [cmd, argv] = isRoot ? ['runuser', ['-u', 'postgres', '--', command, ...args]] : [command, args];
+  const [cmd, argv] = isRoot
+    ? ['runuser', ['-u', 'postgres', '--', command, ...args]]
+    : [command, args];
   return spawnSync(cmd, argv, { cwd: '/', encoding: 'utf8', ...options });
 }
 
 function ownerCanEnter(dir) {
   if (!isRoot) return true;
-  return spawnSync('runuser', ['-u', 'postgres', '--', 'test', '-x', dir], { cwd: '/' }).status === 0;
+  return (
+    spawnSync('runuser', ['-u', 'postgres', '--', 'test', '-x', dir], { cwd: '/' }).status === 0
+  );
 }
 
 /** Picks the cluster's folder: inside the clone when `postgres` can reach it, else a folder under /var/tmp. */
@@ -63,7 +81,8 @@ export function settingsFor(profile = 'start') {
   const defaults = PROFILE_DEFAULTS[profile];
   if (!defaults) fail(`unknown database profile "${profile}" (start or test).`);
   const port = Number(
-    (profile === 'test' ? process.env.KINPATH_TEST_DB_PORT : process.env.KINPATH_DB_PORT) ?? defaults.port,
+    (profile === 'test' ? process.env.KINPATH_TEST_DB_PORT : process.env.KINPATH_DB_PORT) ??
+      defaults.port,
   );
   return { profile, port, database: defaults.database };
 }
@@ -79,8 +98,21 @@ function credentials(profile) {
 
 function psql(ctx, sql, database = 'postgres') {
   const r = asOwner(join(ctx.bin, 'psql'), [
-    '-X', '-q', '-v', 'ON_ERROR_STOP=1', '-h', ctx.socketDir, '-p', String(ctx.port), '-U', 'postgres', '-d', database,
-    '-tA', '-c', sql,
+    '-X',
+    '-q',
+    '-v',
+    'ON_ERROR_STOP=1',
+    '-h',
+    ctx.socketDir,
+    '-p',
+    String(ctx.port),
+    '-U',
+    'postgres',
+    '-d',
+    database,
+    '-tA',
+    '-c',
+    sql,
   ]);
   if (r.status !== 0) throw new Error(`psql failed: ${r.stderr.trim()}`);
   return r.stdout.trim();
@@ -110,7 +142,14 @@ function initCluster(ctx) {
   // The socket lives in a folder only the owner can enter, so local trust is safe;
   // TCP on loopback needs the generated password.
   const init = asOwner(join(ctx.bin, 'initdb'), [
-    '-D', ctx.dataDir, '-U', 'postgres', '--auth-local=trust', '--auth-host=scram-sha-256', '-E', 'UTF8',
+    '-D',
+    ctx.dataDir,
+    '-U',
+    'postgres',
+    '--auth-local=trust',
+    '--auth-host=scram-sha-256',
+    '-E',
+    'UTF8',
     '--locale=C.UTF-8',
   ]);
   if (init.status !== 0) fail(`initdb failed: ${init.stderr.trim()}`);
@@ -123,7 +162,8 @@ function initCluster(ctx) {
     `maintenance_work_mem = '256MB'`,
   ];
   // The test cluster is rebuilt at will: durability on power loss buys nothing there.
-  if (ctx.profile === 'test') lines.push('fsync = off', 'synchronous_commit = off', 'full_page_writes = off');
+  if (ctx.profile === 'test')
+    lines.push('fsync = off', 'synchronous_commit = off', 'full_page_writes = off');
   const conf = join(ctx.dataDir, 'postgresql.conf');
   const append = lines.join('\n') + '\n';
   if (isRoot) {
@@ -148,10 +188,21 @@ export function startCluster(profile = 'start') {
   if (!existsSync(join(ctx.dataDir, 'PG_VERSION'))) initCluster(ctx);
   if (!isRunning(ctx)) {
     const r = asOwner(join(ctx.bin, 'pg_ctl'), [
-      '-D', ctx.dataDir, '-l', join(ctx.dataDir, 'server.log'), '-w', '-t', '60', '-o', `-p ${ctx.port}`, 'start',
+      '-D',
+      ctx.dataDir,
+      '-l',
+      join(ctx.dataDir, 'server.log'),
+      '-w',
+      '-t',
+      '60',
+      '-o',
+      `-p ${ctx.port}`,
+      'start',
     ]);
     if (r.status !== 0) {
-      fail(`PostgreSQL did not start on 127.0.0.1:${ctx.port} (see ${join(ctx.dataDir, 'server.log')}): ${r.stderr.trim()}`);
+      fail(
+        `PostgreSQL did not start on 127.0.0.1:${ctx.port} (see ${join(ctx.dataDir, 'server.log')}): ${r.stderr.trim()}`,
+      );
     }
   }
   const creds = credentials(profile);
@@ -182,7 +233,13 @@ export function stopCluster(profile = 'start') {
 
 /** The libpq variables for a database of this cluster. */
 export function pgEnv(ctx, database = ctx.database) {
-  return { PGHOST: ctx.host, PGPORT: String(ctx.port), PGUSER: ctx.user, PGPASSWORD: ctx.password, PGDATABASE: database };
+  return {
+    PGHOST: ctx.host,
+    PGPORT: String(ctx.port),
+    PGUSER: ctx.user,
+    PGPASSWORD: ctx.password,
+    PGDATABASE: database,
+  };
 }
 
 if (import.meta.url === pathToFileURL(process.argv[1]).href) {
@@ -192,12 +249,16 @@ if (import.meta.url === pathToFileURL(process.argv[1]).href) {
   if (command === 'start') {
     const ctx = startCluster(profile);
     ensureDatabase(ctx);
-    console.log(`kinpath: PostgreSQL (${profile}) on 127.0.0.1:${ctx.port}, database ${ctx.database}.`);
+    console.log(
+      `kinpath: PostgreSQL (${profile}) on 127.0.0.1:${ctx.port}, database ${ctx.database}.`,
+    );
   } else if (command === 'stop') {
     stopCluster(profile);
   } else if (command === 'status') {
     const ctx = context(profile);
-    console.log(isRunning(ctx) ? `running on 127.0.0.1:${ctx.port} (${ctx.dataDir})` : 'not running');
+    console.log(
+      isRunning(ctx) ? `running on 127.0.0.1:${ctx.port} (${ctx.dataDir})` : 'not running',
+    );
   } else {
     fail(`unknown command "${command}" (start, stop or status).`);
   }

@@ -19,13 +19,18 @@ const option = (name, fallback) => {
 };
 const port = option('--port', '3301');
 const database = option('--database', 'kinpath_dev');
-if (!/^kinpath_[a-z0-9_]+$/.test(database)) fail('--database must look like kinpath_dev_something.');
+if (!/^kinpath_[a-z0-9_]+$/.test(database))
+  fail('--database must look like kinpath_dev_something.');
 const smtpPort = Number(option('--smtp-port', String(2540 + (Number(port) % 50))));
 
 const db = startCluster('test');
 ensureDatabase(db, database, { fresh: args.includes('--fresh') });
 const home = join(profileDir('dev'), database);
-const mail = await startMailCatcher({ smtpPort, httpPort: smtpPort + 1000, dir: join(home, 'mail') });
+const mail = await startMailCatcher({
+  smtpPort,
+  httpPort: smtpPort + 1000,
+  dir: join(home, 'mail'),
+});
 const server = await startServer({
   HOST: '127.0.0.1',
   PORT: port,
@@ -42,7 +47,9 @@ const server = await startServer({
   KINPATH_SMTP_PORT: String(smtpPort),
   KINPATH_STATIC_DIR: join(repoRoot, 'frontend', 'dist'),
 });
-console.log(`kinpath: dev server on http://127.0.0.1:${port} (database ${database}); mail in ${join(home, 'mail')} and ${mail.url}`);
+console.log(
+  `kinpath: dev server on http://127.0.0.1:${port} (database ${database}); mail in ${join(home, 'mail')} and ${mail.url}`,
+);
 const stop = async () => {
   await stopProcess(server);
   await mail.close();

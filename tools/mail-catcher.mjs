@@ -25,7 +25,9 @@ export function mailDir(profile) {
 export function readMessages(dir) {
   let files = [];
   try {
-    files = readdirSync(dir).filter((f) => f.endsWith('.json')).sort();
+    files = readdirSync(dir)
+      .filter((f) => f.endsWith('.json'))
+      .sort();
   } catch {
     return [];
   }
@@ -90,7 +92,8 @@ export async function startMailCatcher({ smtpPort, httpPort, dir }) {
   });
   return {
     url: `http://127.0.0.1:${httpPort}`,
-    close: () => Promise.all([new Promise((r) => smtp.close(r)), new Promise((r) => http.close(r))]),
+    close: () =>
+      Promise.all([new Promise((r) => smtp.close(r)), new Promise((r) => http.close(r))]),
   };
 }
 
@@ -103,11 +106,15 @@ if (import.meta.url === pathToFileURL(process.argv[1]).href) {
     const messages = readMessages(dir);
     if (messages.length === 0) console.log(`No caught messages in ${dir}.`);
     for (const m of messages) {
-      console.log(`--- ${m.receivedAt}  to ${m.to.join(', ')}\nSubject: ${m.subject}\n\n${m.text}\n`);
+      console.log(
+        `--- ${m.receivedAt}  to ${m.to.join(', ')}\nSubject: ${m.subject}\n\n${m.text}\n`,
+      );
     }
   } else if (command === 'serve') {
     const catcher = await startMailCatcher({ ...MAIL_DEFAULTS[profile], dir });
-    console.log(`kinpath: catching mail on 127.0.0.1:${MAIL_DEFAULTS[profile].smtpPort}; read it at ${catcher.url}`);
+    console.log(
+      `kinpath: catching mail on 127.0.0.1:${MAIL_DEFAULTS[profile].smtpPort}; read it at ${catcher.url}`,
+    );
   } else {
     console.error(`kinpath: unknown command "${command}" (list or serve).`);
     process.exit(2);

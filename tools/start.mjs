@@ -69,11 +69,8 @@ server.on('exit', async (code) => {
 waitForHealth(`http://127.0.0.1:${port}`, { child: server })
   .then(() => {
     console.log(`\nKinpath is running at http://127.0.0.1:${port}`);
+    // The server itself prints the demo sign-ins when it loaded them.
     console.log(`Caught e-mail: ${mail.url} (or \`npm run mail\`). Ctrl-C stops the server.`);
-    if (demo) {
-      console.log('Demo sign-ins (password kinpath-demo-2026; change them before real use):');
-      for (const who of ['admin', 'registrar', 'advisor', 'head.cmp']) console.log(`  ${who}@halden.example`);
-    }
   })
   .catch((error) => {
     console.error(`kinpath: ${error.message}`);

@@ -9,7 +9,13 @@ import { spawnSync } from 'node:child_process';
 import { ensureDatabase, pgEnv, startCluster, stopCluster } from './db.mjs';
 import { profileDir, repoRoot } from './lib/paths.mjs';
 import { aptInstall } from './lib/run.mjs';
-import { buildAll, ensureDemoFiles, ensureDependencies, startServer, stopProcess } from './lib/setup.mjs';
+import {
+  buildAll,
+  ensureDemoFiles,
+  ensureDependencies,
+  startServer,
+  stopProcess,
+} from './lib/setup.mjs';
 
 const started = Date.now();
 ensureDependencies();
@@ -58,7 +64,13 @@ try {
   rmSync(reportFile, { force: true });
   const vitest = spawnSync(
     process.execPath,
-    [join(repoRoot, 'node_modules', 'vitest', 'vitest.mjs'), 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${reportFile}`],
+    [
+      join(repoRoot, 'node_modules', 'vitest', 'vitest.mjs'),
+      'run',
+      '--reporter=default',
+      '--reporter=json',
+      `--outputFile.json=${reportFile}`,
+    ],
     {
       cwd: repoRoot,
       stdio: 'inherit',

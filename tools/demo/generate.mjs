@@ -14,8 +14,18 @@ import { pathToFileURL } from 'node:url';
 import { CORE, DEPARTMENTS, PROGRAMMES, TITLES } from './halden.mjs';
 
 const LETTERS = [
-  ['A', 4.0], ['A-', 3.7], ['B+', 3.3], ['B', 3.0], ['B-', 2.7], ['C+', 2.3],
-  ['C', 2.0], ['C-', 1.7], ['D+', 1.3], ['D', 1.0], ['D-', 0.7], ['F', 0.0],
+  ['A', 4.0],
+  ['A-', 3.7],
+  ['B+', 3.3],
+  ['B', 3.0],
+  ['B-', 2.7],
+  ['C+', 2.3],
+  ['C', 2.0],
+  ['C-', 1.7],
+  ['D+', 1.3],
+  ['D', 1.0],
+  ['D-', 0.7],
+  ['F', 0.0],
 ];
 const FIRST_YEAR = 2019;
 const LAST_TERM = '2026-FA';
@@ -47,7 +57,8 @@ const norm = (a) => Math.sqrt(dot(a, a)) || 1;
 
 function letterFor(points) {
   let best = LETTERS[0];
-  for (const entry of LETTERS) if (Math.abs(entry[1] - points) < Math.abs(best[1] - points)) best = entry;
+  for (const entry of LETTERS)
+    if (Math.abs(entry[1] - points) < Math.abs(best[1] - points)) best = entry;
   return best;
 }
 
@@ -65,7 +76,13 @@ function termsBetween(firstYear, last) {
 
 function buildCatalogue(rand) {
   const courses = CORE.map((c) => ({
-    ...c, department: 'HRU', level: 1000, credits: 3, elective: false, prerequisites: '', difficulty: 0,
+    ...c,
+    department: 'HRU',
+    level: 1000,
+    credits: 3,
+    elective: false,
+    prerequisites: '',
+    difficulty: 0,
   }));
   for (const dept of DEPARTMENTS) {
     const titles = TITLES[dept.code];
@@ -77,8 +94,15 @@ function buildCatalogue(rand) {
       const style = dept.style.map((x) => Math.max(0, x + rand.normal(0, 0.25)));
       const lab = ['PHY', 'CHM', 'BIO'].includes(dept.code) && levelDigit > 1;
       const course = {
-        code, title, department: dept.code, level: levelDigit * 1000, credits: lab ? 4 : 3, elective: true,
-        style, difficulty: rand.normal(0.05 * levelDigit, 0.3), prerequisites: '',
+        code,
+        title,
+        department: dept.code,
+        level: levelDigit * 1000,
+        credits: lab ? 4 : 3,
+        elective: true,
+        style,
+        difficulty: rand.normal(0.05 * levelDigit, 0.3),
+        prerequisites: '',
       };
       const below = byLevel[levelDigit - 1] ?? [];
       if (levelDigit === 2) course.prerequisites = byLevel[1][0].code;
@@ -86,7 +110,8 @@ function buildCatalogue(rand) {
         const first = rand.pick(below).code;
         const second = rand.pick(below).code;
         course.prerequisites = first === second ? first : `${first} OR ${second}`;
-        if (dept.code === 'PHY' && levelDigit === 3) course.prerequisites = `(${course.prerequisites}) AND MTH 1110`;
+        if (dept.code === 'PHY' && levelDigit === 3)
+          course.prerequisites = `(${course.prerequisites}) AND MTH 1110`;
       }
       byLevel[levelDigit].push(course);
       courses.push(course);
@@ -98,9 +123,12 @@ function buildCatalogue(rand) {
 function prerequisitesMet(expression, passed) {
   if (!expression) return true;
   // Demo expressions are simple: OR binds inside parentheses, AND joins groups.
-  return expression
-    .split(' AND ')
-    .every((group) => group.replace(/[()]/g, '').split(' OR ').some((code) => passed.has(code.trim())));
+  return expression.split(' AND ').every((group) =>
+    group
+      .replace(/[()]/g, '')
+      .split(' OR ')
+      .some((code) => passed.has(code.trim())),
+  );
 }
 
 export function generate({ students: studentCount = 2000, seed = 2026 } = {}) {
@@ -158,9 +186,10 @@ export function generate({ students: studentCount = 2000, seed = 2026 } = {}) {
           prerequisitesMet(c.prerequisites, passed),
       );
       const weights = pool.map((c) => {
-        const related = c.department === home.code ? 1.2 : programme.near.includes(c.department) ? 0.6 : 0;
+        const related =
+          c.department === home.code ? 1.2 : programme.near.includes(c.department) ? 0.6 : 0;
         const levelFit = -0.9 * Math.abs(c.level / 1000 - Math.min(4, year + 0.5));
-        return Math.exp(1.6 * dot(interest, c.style) / norm(c.style) + related + levelFit);
+        return Math.exp((1.6 * dot(interest, c.style)) / norm(c.style) + related + levelFit);
       });
       while (plan.length < load && pool.length) {
         const total = weights.reduce((s, w) => s + w, 0);
@@ -176,11 +205,16 @@ export function generate({ students: studentCount = 2000, seed = 2026 } = {}) {
         const key = `${term}|${code}`;
         enrolment.set(key, (enrolment.get(key) ?? 0) + 1);
         const fitToStrengths = dot(aptitude, course.style) / norm(course.style);
-        const raw = 2.9 + ability + 0.75 * fitToStrengths - course.difficulty + rand.normal(0, 0.33);
+        const raw =
+          2.9 + ability + 0.75 * fitToStrengths - course.difficulty + rand.normal(0, 0.33);
         const [letter, points] = letterFor(Math.min(4, Math.max(0, raw)));
         const mark = rand.uniform();
         const grade = mark < 0.025 ? 'W' : mark < 0.03 ? 'I' : letter;
-        const liking = 3.1 + 1.1 * (dot(interest, course.style) / norm(course.style)) - 0.4 + 0.35 * (points - 2.9);
+        const liking =
+          3.1 +
+          1.1 * (dot(interest, course.style) / norm(course.style)) -
+          0.4 +
+          0.35 * (points - 2.9);
         const satisfaction =
           grade === 'W' || rand.uniform() < 0.14
             ? ''
@@ -192,7 +226,14 @@ export function generate({ students: studentCount = 2000, seed = 2026 } = {}) {
     });
 
     const finished = taken.length >= 8;
-    const status = stopAfter < 8 ? 'withdrawn' : finished ? 'graduated' : rand.uniform() < 0.03 ? 'on_leave' : 'active';
+    const status =
+      stopAfter < 8
+        ? 'withdrawn'
+        : finished
+          ? 'graduated'
+          : rand.uniform() < 0.03
+            ? 'on_leave'
+            : 'active';
     students.push([id, programme.name, entryTerm, status]);
   }
 
@@ -209,7 +250,13 @@ export function generate({ students: studentCount = 2000, seed = 2026 } = {}) {
   }
 
   const catalogue = courses.map((c) => [
-    c.code, c.title, c.department, String(c.credits), String(c.level), c.elective ? 'yes' : 'no', c.prerequisites,
+    c.code,
+    c.title,
+    c.department,
+    String(c.credits),
+    String(c.level),
+    c.elective ? 'yes' : 'no',
+    c.prerequisites,
     `${c.title} at Halden Reach University.`,
   ]);
   return { catalogue, offerings, students, records, nextTerm: NEXT_TERM };
@@ -225,13 +272,34 @@ export function writeDemo(outDir, options) {
   mkdirSync(outDir, { recursive: true });
   writeFileSync(
     join(outDir, 'catalogue.csv'),
-    csv(['course_code', 'title', 'department', 'credits', 'level', 'elective', 'prerequisites', 'description'], data.catalogue),
+    csv(
+      [
+        'course_code',
+        'title',
+        'department',
+        'credits',
+        'level',
+        'elective',
+        'prerequisites',
+        'description',
+      ],
+      data.catalogue,
+    ),
   );
-  writeFileSync(join(outDir, 'offerings.csv'), csv(['term', 'course_code', 'sections', 'capacity'], data.offerings));
-  writeFileSync(join(outDir, 'students.csv'), csv(['student_id', 'program', 'entry_term', 'status'], data.students));
+  writeFileSync(
+    join(outDir, 'offerings.csv'),
+    csv(['term', 'course_code', 'sections', 'capacity'], data.offerings),
+  );
+  writeFileSync(
+    join(outDir, 'students.csv'),
+    csv(['student_id', 'program', 'entry_term', 'status'], data.students),
+  );
   writeFileSync(
     join(outDir, 'records.csv'),
-    csv(['student_id', 'term', 'course_code', 'grade', 'satisfaction', 'credits_attempted'], data.records),
+    csv(
+      ['student_id', 'term', 'course_code', 'grade', 'satisfaction', 'credits_attempted'],
+      data.records,
+    ),
   );
   return data;
 }
@@ -243,7 +311,10 @@ if (import.meta.url === pathToFileURL(process.argv[1]).href) {
     return i >= 0 ? args[i + 1] : fallback;
   };
   const out = option('--out', '.data/demo');
-  const data = writeDemo(out, { students: Number(option('--students', 2000)), seed: Number(option('--seed', 2026)) });
+  const data = writeDemo(out, {
+    students: Number(option('--students', 2000)),
+    seed: Number(option('--seed', 2026)),
+  });
   console.log(
     `kinpath: wrote Halden Reach demo data to ${out}: ${data.catalogue.length} courses, ${data.offerings.length} offerings, ${data.students.length} students, ${data.records.length} records.`,
   );

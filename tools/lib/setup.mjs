@@ -31,14 +31,17 @@ export function buildAll() {
 export function ensureDemoFiles(dir) {
   if (existsSync(join(dir, 'records.csv'))) return dir;
   const data = writeDemo(dir);
-  console.log(`kinpath: generated the Halden Reach demo files (${data.records.length} records) in ${dir}.`);
+  console.log(
+    `kinpath: generated the Halden Reach demo files (${data.records.length} records) in ${dir}.`,
+  );
   return dir;
 }
 
 export async function waitForHealth(url, { timeoutMs = 120_000, child } = {}) {
   const deadline = Date.now() + timeoutMs;
   while (Date.now() < deadline) {
-    if (child && child.exitCode !== null) throw new Error(`the server exited with code ${child.exitCode}`);
+    if (child && child.exitCode !== null)
+      throw new Error(`the server exited with code ${child.exitCode}`);
     try {
       const res = await fetch(`${url}/api/health`);
       if (res.ok) return;
