@@ -6,11 +6,15 @@ import { CatalogueModule } from './catalogue/catalogue.module';
 import { HttpErrorFilter } from './common/http-error.filter';
 import { ConfigModule } from './config/config.module';
 import { DatabaseModule } from './database/database.module';
+import { EvaluationsModule } from './evaluations/evaluations.module';
+import { ForecastsModule } from './forecasts/forecasts.module';
 import { GradeScaleModule } from './grade-scale/grade-scale.module';
 import { HealthModule } from './health/health.module';
 import { ImportsModule } from './imports/imports.module';
+import { ModelModule } from './model/model.module';
 import { PseudonymModule } from './pseudonym/pseudonym.module';
 import { SetupModule } from './setup/setup.module';
+import { StudentsModule } from './students/students.module';
 import { TermDataModule } from './term-data/term-data.module';
 import { UsersModule } from './users/users.module';
 
@@ -28,6 +32,10 @@ import { UsersModule } from './users/users.module';
     ImportsModule,
     GradeScaleModule,
     CatalogueModule,
+    ModelModule,
+    EvaluationsModule,
+    StudentsModule,
+    ForecastsModule,
   ],
   providers: [{ provide: APP_FILTER, useClass: HttpErrorFilter }],
 })

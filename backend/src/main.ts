@@ -1,5 +1,5 @@
 import 'reflect-metadata';
-import { Logger, ValidationPipe } from '@nestjs/common';
+import { ConsoleLogger, Logger, ValidationPipe } from '@nestjs/common';
 import { NestFactory } from '@nestjs/core';
 import type { NestExpressApplication } from '@nestjs/platform-express';
 import helmet from 'helmet';
@@ -22,13 +22,29 @@ async function bootstrap(): Promise<void> {
   }
 
   const app = await NestFactory.create<NestExpressApplication>(AppModule, {
-    logger: logLevelsFrom(config.logLevel),
+    // One JSON object per line; messages never carry passwords, tokens or student numbers.
+    logger: new ConsoleLogger({
+      json: config.logFormat === 'json',
+      colors: config.logFormat === 'text' && process.stdout.isTTY,
+      logLevels: logLevelsFrom(config.logLevel),
+    }),
     bodyParser: true,
+    // Closed unless KINPATH_CORS_ORIGINS names the sites that may call the API.
+    cors: config.corsOrigins.length > 0 ? { origin: config.corsOrigins } : false,
   });
   app.enableShutdownHooks();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
   app.useBodyParser('json', { limit: '1mb' });
+  app.useBodyParser('urlencoded', { limit: '64kb', extended: false });
+  // API answers hold personal data: no browser or proxy may keep them.
+  app.use(
+    '/api',
+    (_req: unknown, res: { setHeader(n: string, v: string): void }, next: () => void) => {
+      res.setHeader('Cache-Control', 'no-store');
+      next();
+    },
+  );
   app.use(
     helmet({
       contentSecurityPolicy: {

@@ -1,13 +1,16 @@
 import { Global, Module } from '@nestjs/common';
 import { TypeOrmModule } from '@nestjs/typeorm';
+import { AuditTrailService } from './audit-trail.service';
+import { AuditController } from './audit.controller';
 import { AuditService } from './audit.service';
 import { AuditEvent } from './entities/audit-event.entity';
 
-/** Global so any feature can append to the trail; reading it (issue 8) gets a controller here. */
+/** Global so any feature can append to the trail; admins and registrar staff read it. */
 @Global()
 @Module({
   imports: [TypeOrmModule.forFeature([AuditEvent])],
-  providers: [AuditService],
+  controllers: [AuditController],
+  providers: [AuditService, AuditTrailService],
   exports: [AuditService],
 })
 export class AuditModule {}

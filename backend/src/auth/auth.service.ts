@@ -3,9 +3,13 @@ import { Injectable, Logger, UnauthorizedException } from '@nestjs/common';
 import { JwtService } from '@nestjs/jwt';
 import { AUDIT_ACTIONS } from '../audit/audit-actions';
 import { AuditService } from '../audit/audit.service';
+import type { User } from '../users/entities/user.entity';
 import { decoyPasswordHash, verifyPassword } from '../users/passwords';
 import { toSummary, UsersService } from '../users/users.service';
-import { ACCESS_TOKEN_TTL_SECONDS, JWT_ALGORITHM, JwtSecret } from './jwt-secret';
+import { JWT_ALGORITHM, JwtSecret } from './jwt-secret';
+import { ACCESS_TOKEN_TTL_SECONDS, type RequestSession } from './sessions';
+import { SessionsService } from './sessions.service';
+import { SignInThrottleService } from './sign-in-throttle.service';
 import type { AccessTokenPayload } from './strategies/jwt.strategy';
 
 /** One message for every refusal, so a reply never tells whether an address has an account. */
@@ -20,11 +24,14 @@ export class AuthService {
     private readonly jwt: JwtService,
     private readonly secret: JwtSecret,
     private readonly audit: AuditService,
+    private readonly sessions: SessionsService,
+    private readonly throttle: SignInThrottleService,
   ) {}
 
-  async signIn(email: string, password: string): Promise<LoginResponse> {
-    const address = email.trim().toLowerCase();
-    const user = await this.users.findForSignIn(address);
+  async signIn(email: string, password: string, address: string): Promise<LoginResponse> {
+    const emailKey = email.trim().toLowerCase();
+    await this.throttle.assertAllowed(emailKey, address);
+    const user = await this.users.findForSignIn(emailKey);
     // Compare even when there is no account, so both refusals take the same time.
     const hash = user?.passwordHash ?? (await decoyPasswordHash());
     const matches = await verifyPassword(password, hash);
@@ -38,21 +45,57 @@ export class AuthService {
             ? 'wrong_password'
             : 'inactive';
       await this.audit.record({
-        actor: user ? { id: user.id, email: user.email } : { email: address.slice(0, 254) },
+        actor: user ? { id: user.id, email: user.email } : { email: emailKey.slice(0, 254) },
         action: AUDIT_ACTIONS.signInFailed,
-        detail: { reason },
+        detail: { reason, address },
       });
+      await this.throttle.recordFailure(emailKey, address);
       this.logger.log(`Sign-in refused (${reason}).`);
       throw new UnauthorizedException(SIGN_IN_REFUSED);
     }
 
-    const payload: AccessTokenPayload = { sub: user.id, ver: user.tokenVersion };
+    await this.throttle.recordSuccess(emailKey);
+    const session = await this.sessions.start(user.id);
+    await this.audit.record({
+      actor: user,
+      action: AUDIT_ACTIONS.signIn,
+      target: user.id,
+      detail: { session: session.id, address },
+    });
+    return this.issue(user, session);
+  }
+
+  /** A fresh access token for the same session, never outliving it. */
+  async renew(user: User, session: RequestSession): Promise<LoginResponse> {
+    await this.sessions.touch(session.id);
+    return this.issue(user, session);
+  }
+
+  async signOut(user: User, session: RequestSession): Promise<void> {
+    await this.sessions.end(session.id, 'signed_out');
+    await this.audit.record({
+      actor: user,
+      action: AUDIT_ACTIONS.signOut,
+      target: user.id,
+      detail: { session: session.id },
+    });
+  }
+
+  private async issue(user: User, session: RequestSession): Promise<LoginResponse> {
+    const now = Math.floor(Date.now() / 1000);
+    const sessionEnd = Math.floor(session.expiresAt.getTime() / 1000);
+    const expiresIn = Math.max(1, Math.min(ACCESS_TOKEN_TTL_SECONDS, sessionEnd - now));
+    const payload: AccessTokenPayload = { sub: user.id, ver: user.tokenVersion, sid: session.id };
     const accessToken = await this.jwt.signAsync(payload, {
       secret: this.secret.value,
       algorithm: JWT_ALGORITHM,
-      expiresIn: ACCESS_TOKEN_TTL_SECONDS,
+      expiresIn,
     });
-    await this.audit.record({ actor: user, action: AUDIT_ACTIONS.signIn, target: user.id });
-    return { accessToken, user: toSummary(user) };
+    return {
+      accessToken,
+      user: toSummary(user),
+      expiresAt: new Date((now + expiresIn) * 1000).toISOString(),
+      sessionExpiresAt: session.expiresAt.toISOString(),
+    };
   }
 }

@@ -12,6 +12,7 @@ import {
   ApiUnauthorizedResponse,
 } from '@nestjs/swagger';
 import type { User } from '../users/entities/user.entity';
+import type { RequestSession } from './sessions';
 
 export const IS_PUBLIC = 'kinpath:public';
 export const ROLES = 'kinpath:roles';
@@ -42,4 +43,10 @@ export const SignedIn = () =>
 export const CurrentUser = createParamDecorator(
   (_data: unknown, context: ExecutionContext): User =>
     context.switchToHttp().getRequest<{ user: User }>().user,
+);
+
+/** The session of the request's token (for renewal and sign-out). */
+export const CurrentSession = createParamDecorator(
+  (_data: unknown, context: ExecutionContext): RequestSession =>
+    context.switchToHttp().getRequest<{ kinpathSession: RequestSession }>().kinpathSession,
 );

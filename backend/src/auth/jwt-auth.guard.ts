@@ -1,6 +1,7 @@
 import { ExecutionContext, Injectable, UnauthorizedException } from '@nestjs/common';
 import { Reflector } from '@nestjs/core';
 import { AuthGuard } from '@nestjs/passport';
+import { isDatabaseUnavailable } from '../common/http-error.filter';
 import { IS_PUBLIC } from './decorators';
 
 export const NOT_SIGNED_IN = 'Sign in to continue: the request has no valid access token.';
@@ -21,6 +22,9 @@ export class JwtAuthGuard extends AuthGuard('jwt') {
   }
 
   override handleRequest<TUser>(error: unknown, user: TUser | false): TUser {
+    // A database outage while checking the session is the server's trouble (503), not a
+    // bad token: answering 401 would sign every user out of the web client.
+    if (error && isDatabaseUnavailable(error)) throw error;
     if (error || !user) throw new UnauthorizedException(NOT_SIGNED_IN);
     return user;
   }

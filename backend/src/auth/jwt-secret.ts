@@ -4,8 +4,7 @@ import { InjectConfig } from '../config/config.provider';
 import { readOrCreateSecret } from '../config/secrets';
 
 export const JWT_ALGORITHM = 'HS256';
-/** Access tokens are short-lived; issue 8 adds renewal while the user is active. */
-export const ACCESS_TOKEN_TTL_SECONDS = 15 * 60;
+export { ACCESS_TOKEN_TTL_SECONDS } from './sessions';
 
 /** The signing secret: KINPATH_JWT_SECRET, or one generated once into the data folder. */
 @Injectable()

@@ -39,3 +39,23 @@ describe('the error shape', () => {
     });
   });
 });
+
+describe('database outages', () => {
+  it('answer 503 for refused, cut and shut-down connections, and only those', () => {
+    const refused = Object.assign(new Error('connect ECONNREFUSED 127.0.0.1:5432'), {
+      code: 'ECONNREFUSED',
+    });
+    const cut = new Error('Connection terminated unexpectedly');
+    const shutdown = Object.assign(
+      new Error('terminating connection due to administrator command'),
+      {
+        code: '57P01',
+      },
+    );
+    const wrapped = { name: 'QueryFailedError', message: 'x', driverError: refused };
+    for (const error of [refused, cut, shutdown, wrapped]) {
+      expect(toApiError(error).statusCode).toBe(503);
+    }
+    expect(toApiError(Object.assign(new Error('syntax'), { code: '42601' })).statusCode).toBe(500);
+  });
+});

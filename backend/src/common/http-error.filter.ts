@@ -21,7 +21,9 @@ export class HttpErrorFilter implements ExceptionFilter {
   catch(exception: unknown, host: ArgumentsHost): void {
     const res = host.switchToHttp().getResponse<Response>();
     const body = toApiError(exception);
-    if (body.statusCode >= 500 && !(exception instanceof HttpException)) {
+    if (body.statusCode === 503 && !(exception instanceof HttpException)) {
+      this.logger.warn('A request failed: the database cannot be reached.');
+    } else if (body.statusCode >= 500 && !(exception instanceof HttpException)) {
       // The message only: stacks and query parameters may hold values we must not log.
       const error = exception as { name?: string; message?: string; code?: string };
       this.logger.error(
@@ -29,6 +31,8 @@ export class HttpErrorFilter implements ExceptionFilter {
       );
     }
     if (res.headersSent) return;
+    const retryAfter = (exception as { retryAfterSeconds?: unknown })?.retryAfterSeconds;
+    if (typeof retryAfter === 'number') res.setHeader('Retry-After', String(retryAfter));
     res.status(body.statusCode).json(body);
   }
 }
@@ -65,6 +69,13 @@ export function toApiError(exception: unknown): ApiError {
           : (STATUS_CODES[status] ?? 'Bad request');
     return { statusCode: status, message, error: STATUS_CODES[status] ?? 'Error' };
   }
+  if (isDatabaseUnavailable(exception)) {
+    return {
+      statusCode: HttpStatus.SERVICE_UNAVAILABLE,
+      message: 'The database cannot be reached right now. Try again in a moment.',
+      error: 'Service Unavailable',
+    };
+  }
   if ((exception as { code?: string })?.code === '23505') {
     return {
       statusCode: HttpStatus.CONFLICT,
@@ -77,4 +88,30 @@ export function toApiError(exception: unknown): ApiError {
     message: 'Something went wrong on the server.',
     error: 'Internal Server Error',
   };
+}
+
+const CONNECTION_ERROR_CODES = new Set([
+  'ECONNREFUSED',
+  'ECONNRESET',
+  'EPIPE',
+  'ETIMEDOUT',
+  'EHOSTUNREACH',
+]);
+const CONNECTION_MESSAGES =
+  /Connection terminated|timeout exceeded when trying to connect|Client has encountered a connection error|Connection ended unexpectedly|the database system is (starting up|shutting down)|terminating connection/i;
+
+/**
+ * Whether an error means the database is away (refused, cut, timed out, shutting
+ * down): such a request answers 503 at once rather than a 500 or a hang.
+ */
+export function isDatabaseUnavailable(exception: unknown): boolean {
+  const error = exception as { code?: unknown; message?: unknown; driverError?: unknown } | null;
+  if (!error || typeof error !== 'object') return false;
+  const code = typeof error.code === 'string' ? error.code : '';
+  // SQLSTATE class 08 (connection exception), 57P01-57P03 (shutdown), 53300 (too many connections).
+  if (/^08|^57P0[123]$|^53300$/.test(code) || CONNECTION_ERROR_CODES.has(code)) return true;
+  if (typeof error.message === 'string' && CONNECTION_MESSAGES.test(error.message)) return true;
+  return error.driverError !== undefined && error.driverError !== exception
+    ? isDatabaseUnavailable(error.driverError)
+    : false;
 }

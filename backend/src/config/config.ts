@@ -30,6 +30,12 @@ export interface AppConfig {
   smtp: { host: string; port: number; from: string };
   staticDir: string;
   logLevel: LogLevel;
+  /** JSON lines (the default, for log collectors) or plain text for a person at a terminal. */
+  logFormat: 'json' | 'text';
+  /** Where people reach Kinpath: the links in invitation and reset e-mails start with it. */
+  publicUrl: string;
+  /** Origins allowed to call the API from another site; none by default (same origin only). */
+  corsOrigins: string[];
 }
 
 type Env = Record<string, string | undefined>;
@@ -117,9 +123,22 @@ export function loadConfig(env: Env = process.env): AppConfig {
   } catch {
     throw new ConfigError(`KINPATH_DATA_DIR (${dataDir}) cannot be created or written.`);
   }
+  const host = text(env, 'HOST', '127.0.0.1') as string;
+  const listenPort = port(env, 'PORT', 3000);
+  const publicUrl = (
+    text(env, 'KINPATH_PUBLIC_URL') ??
+    `http://${host.includes(':') ? `[${host}]` : host}:${listenPort}`
+  ).replace(/\/+$/, '');
+  if (!/^https?:\/\/[^\s/]+/.test(publicUrl)) {
+    throw new ConfigError(`KINPATH_PUBLIC_URL must be an http(s) address, not '${publicUrl}'.`);
+  }
+  const corsOrigins = (text(env, 'KINPATH_CORS_ORIGINS') ?? '')
+    .split(',')
+    .map((origin) => origin.trim())
+    .filter(Boolean);
   return {
-    host: text(env, 'HOST', '127.0.0.1') as string,
-    port: port(env, 'PORT', 3000),
+    host,
+    port: listenPort,
     database: loadDatabaseConfig(env),
     dataDir,
     jwtSecret,
@@ -135,7 +154,18 @@ export function loadConfig(env: Env = process.env): AppConfig {
     },
     staticDir: folder(env, 'KINPATH_STATIC_DIR', resolve(REPO_ROOT, 'frontend', 'dist')),
     logLevel,
+    logFormat: logFormat(env),
+    publicUrl,
+    corsOrigins,
   };
+}
+
+function logFormat(env: Env): 'json' | 'text' {
+  const raw = (text(env, 'KINPATH_LOG_FORMAT', 'json') as string).toLowerCase();
+  if (raw !== 'json' && raw !== 'text') {
+    throw new ConfigError(`KINPATH_LOG_FORMAT must be 'json' or 'text', not '${raw}'.`);
+  }
+  return raw;
 }
 
 /** Nest's logger shows the chosen level and every more severe one. */

@@ -8,6 +8,7 @@ import { StudentRecord } from '../term-data/entities/student-record.entity';
 import { Student } from '../term-data/entities/student.entity';
 import { User } from '../users/entities/user.entity';
 import { MIGRATIONS } from './migrations';
+import { TypeOrmSafeLogger } from './typeorm-logger';
 
 export const ENTITIES = [
   User,
@@ -39,6 +40,7 @@ export function dataSourceOptions(db: DatabaseConfig): DataSourceOptions {
     // gen_random_uuid() is built into PostgreSQL 13+; no extension needed.
     installExtensions: false,
     logging: ['error', 'migration'],
+    logger: new TypeOrmSafeLogger(),
     applicationName: 'kinpath',
     extra: {
       max: 10,

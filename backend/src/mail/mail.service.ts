@@ -8,6 +8,8 @@ export interface OutgoingMail {
   subject: string;
   text: string;
   html: string;
+  /** Where replies go, e.g. the advisor who sent a summary. */
+  replyTo?: string;
 }
 
 /**

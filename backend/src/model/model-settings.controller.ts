@@ -1,5 +1,15 @@
 import type { ModelSettingsResponse, ModelSettingsVersion } from '@kinpath/contracts';
-import { Body, Controller, Get, HttpCode, NotFoundException, Param, ParseIntPipe, Post, Put } from '@nestjs/common';
+import {
+  Body,
+  Controller,
+  Get,
+  HttpCode,
+  NotFoundException,
+  Param,
+  ParseIntPipe,
+  Post,
+  Put,
+} from '@nestjs/common';
 import { ApiBadRequestResponse, ApiNotFoundResponse, ApiOperation, ApiTags } from '@nestjs/swagger';
 import { CurrentUser, Roles, SignedIn } from '../auth/decorators';
 import type { User } from '../users/entities/user.entity';

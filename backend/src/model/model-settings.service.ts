@@ -102,11 +102,17 @@ export class ModelSettingsService {
   }
 
   async restore(version: number, actor: Actor): Promise<ModelSettingsVersion> {
-    const rows: VersionRow[] = await this.dataSource.query(`${SELECT_VERSIONS} WHERE version = $1`, [
-      version,
-    ]);
+    const rows: VersionRow[] = await this.dataSource.query(
+      `${SELECT_VERSIONS} WHERE version = $1`,
+      [version],
+    );
     if (!rows[0]) throw new NotFoundException(`There is no model settings version ${version}.`);
-    return this.append(completeSettings(rows[0].settings), `Restored version ${version}.`, version, actor);
+    return this.append(
+      completeSettings(rows[0].settings),
+      `Restored version ${version}.`,
+      version,
+      actor,
+    );
   }
 
   private async append(

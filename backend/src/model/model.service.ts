@@ -26,7 +26,7 @@ import { termSortKey } from './term-keys';
 const SATISFACTION_SCALE: Scale = { min: 1, max: 5 };
 
 /** Records arrive as parallel arrays; repeated keys share one string. */
-interface RecordColumns {
+export interface RecordColumns {
   students: string[];
   courses: string[];
   terms: string[];
@@ -68,7 +68,10 @@ export class ModelService implements OnApplicationBootstrap, OnModuleDestroy {
         void this.rebuild();
       }),
       this.events.settingsChanged$.subscribe(() => {
-        if (this.snapshot) void this.warm(this.snapshot);
+        if (!this.snapshot) return;
+        this.warm(this.snapshot).catch((error: Error) =>
+          this.logger.warn(`Could not prepare the model for the new settings: ${error.message}`),
+        );
       }),
     );
     // In the background: the server answers health checks while the model builds,
@@ -132,42 +135,14 @@ export class ModelService implements OnApplicationBootstrap, OnModuleDestroy {
 
   private async buildOnce(announced: string[]): Promise<void> {
     const started = Date.now();
-    const runner = this.dataSource.createQueryRunner();
-    let columns: RecordColumns;
-    let scale: GradeScaleModel;
-    let courses: Map<string, CatalogueEntry>;
-    let offerings: Map<string, Set<string>>;
-    let pendingImports: string[];
-    try {
-      const client = (await runner.connect()) as ClientBase;
-      // One consistent view of records, catalogue, offerings and scale, even mid-import.
-      await client.query('BEGIN ISOLATION LEVEL REPEATABLE READ READ ONLY');
-      try {
-        scale = await loadGradeScale(async (sql) => (await client.query(sql)).rows);
-        columns = await this.readRecords(client, scale);
-        courses = await this.readCourses(client);
-        offerings = await this.readOfferings(client);
-        pendingImports = await this.importsAwaitingModel(client);
-      } finally {
-        await client.query('COMMIT');
-      }
-    } finally {
-      await runner.release();
-    }
+    const data = await this.readTermData(async (client) => ({
+      offerings: await this.readOfferings(client),
+      pendingImports: await this.importsAwaitingModel(client),
+    }));
+    const { records: columns, scale, scales, courses } = data;
+    const { offerings, pendingImports } = data.alongside;
     const terms: TermsResponse = await this.catalogue.terms();
-
-    const scales: { grade?: Scale; satisfaction: Scale } = { satisfaction: SATISFACTION_SCALE };
-    if (scale.maxPoints > scale.minPoints) scales.grade = { min: scale.minPoints, max: scale.maxPoints };
-    const model: Model = buildModel(
-      {
-        students: columns.students,
-        courses: columns.courses,
-        terms: columns.terms,
-        grades: columns.grades,
-        satisfaction: columns.satisfaction,
-      },
-      { scales },
-    );
+    const model: Model = buildModel(columns, { scales });
     const electives = [...courses.values()]
       .filter((c) => c.elective)
       .sort((a, b) => (a.courseCode < b.courseCode ? -1 : a.courseCode > b.courseCode ? 1 : 0));
@@ -185,9 +160,9 @@ export class ModelService implements OnApplicationBootstrap, OnModuleDestroy {
     await this.warm(snapshot);
     this.snapshot = snapshot;
     const buildMs = Date.now() - started;
-    if (columns.outOfScale > 0) {
+    if (data.outOfScale > 0) {
       this.logger.warn(
-        `${columns.outOfScale} records carry grade points outside the grade scale (${scale.minPoints} to ${scale.maxPoints}) and were left out of the model.`,
+        `${data.outOfScale} records carry grade points outside the grade scale (${scale.minPoints} to ${scale.maxPoints}) and were left out of the model.`,
       );
     }
     this.logger.log(
@@ -208,6 +183,40 @@ export class ModelService implements OnApplicationBootstrap, OnModuleDestroy {
       records: snapshot.records,
       buildMs,
     });
+  }
+
+  /**
+   * The term data exactly as the model reads it (engine term keys, grade points
+   * within the scale, the same scales) in one consistent view, without building
+   * or replacing the model in force: for backtests. `alongside` reads more in that view.
+   */
+  async readTermData<T>(alongside: (client: ClientBase) => Promise<T>): Promise<{
+    records: Omit<RecordColumns, 'outOfScale'>;
+    scale: GradeScaleModel;
+    scales: { grade?: Scale; satisfaction: Scale };
+    courses: Map<string, CatalogueEntry>;
+    outOfScale: number;
+    alongside: T;
+  }> {
+    const runner = this.dataSource.createQueryRunner();
+    try {
+      const client = (await runner.connect()) as ClientBase;
+      await client.query('BEGIN ISOLATION LEVEL REPEATABLE READ READ ONLY');
+      try {
+        const scale = await loadGradeScale(async (sql) => (await client.query(sql)).rows);
+        const { outOfScale, ...records } = await this.readRecords(client, scale);
+        const courses = await this.readCourses(client);
+        const extra = await alongside(client);
+        const scales: { grade?: Scale; satisfaction: Scale } = { satisfaction: SATISFACTION_SCALE };
+        if (scale.maxPoints > scale.minPoints)
+          scales.grade = { min: scale.minPoints, max: scale.maxPoints };
+        return { records, scale, scales, courses, outOfScale, alongside: extra };
+      } finally {
+        await client.query('COMMIT');
+      }
+    } finally {
+      await runner.release();
+    }
   }
 
   /**

@@ -3,6 +3,7 @@ import type {
   ElectiveExplanation,
   ElectivesResponse,
   EstimateBasis,
+  GradeScaleLetter,
   ModelSettings,
   SignalExplanation,
 } from '@kinpath/contracts';
@@ -25,7 +26,7 @@ import type { User } from '../users/entities/user.entity';
 import { passedCourses, passRule, type PassRule } from './attempts';
 import { ineligibleReasons } from './eligibility';
 import { nearestLetter } from './grade-letters';
-import { StudentsService, type KnownStudent } from './students.service';
+import { StudentsService } from './students.service';
 import { auditAction, STUDENT_AUDIT } from './students-audit';
 
 type Actor = Pick<User, 'id' | 'email'>;
@@ -65,8 +66,11 @@ export function methodDescription(settings: ModelSettings): ElectiveExplanation[
  */
 @Injectable()
 export class ElectivesService {
-  /** Pass rules per model: the grade scale only changes with a rebuild. */
-  private readonly rules = new WeakMap<ModelSnapshot, PassRule>();
+  /** Pass rule and letters per model: the grade scale only changes with a rebuild. */
+  private readonly scales = new WeakMap<
+    ModelSnapshot,
+    { rule: PassRule; letters: GradeScaleLetter[] }
+  >();
 
   constructor(
     private readonly students: StudentsService,
@@ -75,9 +79,13 @@ export class ElectivesService {
     private readonly audit: AuditService,
   ) {}
 
-  async electives(ref: string, term: string | undefined, actor: Actor): Promise<ElectivesResponse> {
-    const student = await this.students.find(ref);
-    const response = await this.estimates(student, term);
+  async electives(
+    ref: string,
+    term: string | undefined,
+    includeNotOffered: boolean,
+    actor: Actor,
+  ): Promise<ElectivesResponse> {
+    const response = await this.estimates(ref, term, { includeNotOffered });
     await this.audit.record({
       actor,
       action: auditAction(STUDENT_AUDIT.electivesViewed),
@@ -87,35 +95,49 @@ export class ElectivesService {
     return response;
   }
 
-  /** Estimates for the student; only `courseCodes` (any catalogue course) when given. */
+  /**
+   * Estimates for the student in the term: the electives offered in it (every
+   * elective of the catalogue with `includeNotOffered`), or exactly `courseCodes`
+   * (any catalogue course) when given.
+   */
   async estimates(
-    student: KnownStudent,
+    ref: string,
     requestedTerm: string | undefined,
-    courseCodes?: readonly string[],
+    select: { courseCodes?: readonly string[]; includeNotOffered?: boolean } = {},
   ): Promise<ElectivesResponse> {
-    const [snapshot, version, attempts] = await Promise.all([
-      this.model.current(),
-      this.settings.current(),
-      this.students.attempts(student.pseudonym),
-    ]);
+    const [snapshot, version] = await Promise.all([this.model.current(), this.settings.current()]);
+    const { student, attempts } = await this.students.records(ref, snapshot);
     const term = requestedTerm ?? snapshot.terms.next;
     if (!term) {
-      throw new ConflictException('There is no term data yet, so there is no next term to plan for.');
+      throw new ConflictException(
+        'There is no term data yet, so there is no next term to plan for.',
+      );
     }
-    const courses: CatalogueEntry[] = courseCodes
-      ? courseCodes.map((code) => snapshot.courses.get(code) as CatalogueEntry)
-      : [...snapshot.electives];
-    const passed = passedCourses(attempts, this.passRule(snapshot));
     const offered = snapshot.offerings.get(term) ?? new Set<string>();
+    const courses: CatalogueEntry[] = select.courseCodes
+      ? select.courseCodes
+          .map((code) => snapshot.courses.get(code))
+          .filter((c): c is CatalogueEntry => c !== undefined)
+      : select.includeNotOffered
+        ? [...snapshot.electives]
+        : snapshot.electives.filter((c) => offered.has(c.courseCode));
+    const { rule, letters } = this.scaleOf(snapshot);
+    const passed = passedCourses(attempts, rule);
     const prediction = predictStudent(
       snapshot.model,
       student.pseudonym,
       courses.map((c) => c.courseCode),
       engineSettings(version.settings),
     );
-    const letters = snapshot.scale.toApi().letters;
     const electives = courses.map((course, i) =>
-      this.estimate(course, prediction.predictions[i], passed, offered.has(course.courseCode), term, letters),
+      this.estimate(
+        course,
+        prediction.predictions[i],
+        passed,
+        offered.has(course.courseCode),
+        term,
+        letters,
+      ),
     );
     return {
       term,
@@ -127,13 +149,13 @@ export class ElectivesService {
   }
 
   async explanation(ref: string, courseCodeParam: string): Promise<ElectiveExplanation> {
-    const student = await this.students.find(ref);
     const [snapshot, version] = await Promise.all([this.model.current(), this.settings.current()]);
+    const { student } = await this.students.records(ref, snapshot);
     const code = normalizeCourseCode(courseCodeParam);
     const course = code ? snapshot.courses.get(code) : undefined;
     if (!course) throw new NotFoundException('This course is not in the catalogue.');
     const settings = engineSettings(version.settings);
-    const letters = snapshot.scale.toApi().letters;
+    const { letters } = this.scaleOf(snapshot);
     const signal = (s: Signal): SignalExplanation => {
       const e = explain(snapshot.model, student.pseudonym, course.courseCode, settings, s, 5);
       const who = s === 'grade' ? 'grades' : 'answers';
@@ -147,7 +169,10 @@ export class ElectivesService {
         outcomes:
           e.outcomes?.map((o) => ({
             value: o.value,
-            label: s === 'grade' ? (nearestLetter(o.value, letters) ?? String(o.value)) : String(o.value),
+            label:
+              s === 'grade'
+                ? (nearestLetter(o.value, letters) ?? String(o.value))
+                : String(o.value),
             count: o.count,
           })) ?? null,
         outcomesSuppressed: e.outcomes
@@ -179,7 +204,7 @@ export class ElectivesService {
     passed: ReadonlySet<string>,
     offered: boolean,
     term: string,
-    letters: { letter: string; points: number }[],
+    letters: readonly GradeScaleLetter[],
   ): ElectiveEstimate {
     const reasons = ineligibleReasons(course, passed, offered, term);
     return {
@@ -202,9 +227,12 @@ export class ElectivesService {
     };
   }
 
-  private passRule(snapshot: ModelSnapshot): PassRule {
-    let rule = this.rules.get(snapshot);
-    if (!rule) this.rules.set(snapshot, (rule = passRule(snapshot.scale)));
-    return rule;
+  private scaleOf(snapshot: ModelSnapshot): { rule: PassRule; letters: GradeScaleLetter[] } {
+    let scale = this.scales.get(snapshot);
+    if (!scale) {
+      scale = { rule: passRule(snapshot.scale), letters: snapshot.scale.toApi().letters };
+      this.scales.set(snapshot, scale);
+    }
+    return scale;
   }
 }

@@ -9,7 +9,8 @@ export function unmetPrerequisites(
 ): PrerequisiteNode | null {
   if (!node) return null;
   if (node.type === 'course') return passed.has(node.code) ? null : node;
-  if (node.type === 'or') return node.items.some((i) => !unmetPrerequisites(i, passed)) ? null : node;
+  if (node.type === 'or')
+    return node.items.some((i) => !unmetPrerequisites(i, passed)) ? null : node;
   const unmet = node.items
     .map((i) => unmetPrerequisites(i, passed))
     .filter((i): i is PrerequisiteNode => i !== null);

@@ -4,7 +4,10 @@ import type { GradeScaleLetter } from '@kinpath/contracts';
  * The scale's letter nearest to a predicted grade. Halfway between two letters
  * the lower one is given: an estimate should not read better than it is.
  */
-export function nearestLetter(points: number | null, letters: readonly GradeScaleLetter[]): string | null {
+export function nearestLetter(
+  points: number | null,
+  letters: readonly GradeScaleLetter[],
+): string | null {
   if (points === null || letters.length === 0) return null;
   let best = letters[0];
   let bestGap = Math.abs(points - best.points);

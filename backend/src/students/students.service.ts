@@ -10,6 +10,7 @@ import { Injectable, NotFoundException } from '@nestjs/common';
 import { InjectDataSource } from '@nestjs/typeorm';
 import type { DataSource } from 'typeorm';
 import { AuditService } from '../audit/audit.service';
+import type { ModelSnapshot } from '../model/model-snapshot';
 import { ModelService } from '../model/model.service';
 import { PseudonymService } from '../pseudonym/pseudonym.service';
 import type { User } from '../users/entities/user.entity';
@@ -29,7 +30,15 @@ export interface KnownStudent {
   status: StudentStatus;
 }
 
+/** A student and their attempts, as of one model. */
+export interface StudentRecords {
+  student: KnownStudent;
+  attempts: Attempt[];
+}
+
 const RECENT_LIMIT = 12;
+/** Students kept per model for the electives route; the oldest go first beyond this. */
+const CACHED_STUDENTS = 5000;
 
 function publicView(s: Omit<KnownStudent, 'pseudonym'>): StudentLookupResponse {
   return { ref: s.ref, program: s.program, status: s.status, entryTerm: s.entryTerm };
@@ -41,6 +50,12 @@ function publicView(s: Omit<KnownStudent, 'pseudonym'>): StudentLookupResponse {
  */
 @Injectable()
 export class StudentsService {
+  /**
+   * Records only change with term data, which makes a new model: per model, the
+   * students advisors are looking at are read once, not on every electives request.
+   */
+  private readonly byModel = new WeakMap<ModelSnapshot, Map<string, StudentRecords>>();
+
   constructor(
     @InjectDataSource() private readonly dataSource: DataSource,
     private readonly pseudonyms: PseudonymService,
@@ -127,6 +142,19 @@ export class StudentsService {
       entryTerm: rows[0].entry_term,
       status: rows[0].status,
     };
+  }
+
+  /** The student and their attempts as the given model knows them (read once per model). */
+  async records(ref: string, snapshot: ModelSnapshot): Promise<StudentRecords> {
+    let cache = this.byModel.get(snapshot);
+    if (!cache) this.byModel.set(snapshot, (cache = new Map()));
+    const hit = cache.get(ref);
+    if (hit) return hit;
+    const student = await this.find(ref);
+    const entry = { student, attempts: await this.attempts(student.pseudonym) };
+    cache.set(ref, entry);
+    if (cache.size > CACHED_STUDENTS) cache.delete(cache.keys().next().value as string);
+    return entry;
   }
 
   async attempts(pseudonym: string): Promise<Attempt[]> {

@@ -3,20 +3,25 @@ import {
   BadRequestException,
   ConflictException,
   Injectable,
+  Logger,
   NotFoundException,
 } from '@nestjs/common';
 import { InjectRepository } from '@nestjs/typeorm';
 import type { EntityManager, Repository } from 'typeorm';
 import { AUDIT_ACTIONS } from '../audit/audit-actions';
 import { AuditService } from '../audit/audit.service';
+import { endUserSessions } from '../auth/sessions';
 import type { CreateUserDto } from './dto/create-user.dto';
 import type { UpdateUserDto } from './dto/update-user.dto';
 import { User } from './entities/user.entity';
+import { InvitationsService } from './invitations.service';
 import { hashPassword } from './passwords';
 
 export const HEAD_NEEDS_DEPARTMENT = 'A department head needs a department code such as CMP.';
 export const PENDING_INVITATION_NOTICE =
-  'The account was created inactive and waits for an invitation: it can sign in once a password is set.';
+  'An invitation e-mail is on its way: the account becomes active when its owner sets a password through the link (valid 72 hours).';
+export const INVITATION_NOT_SENT_NOTICE =
+  'The account was created, but the invitation e-mail could not be sent: send it again from the list.';
 
 export interface NewUser {
   email: string;
@@ -29,9 +34,12 @@ export interface NewUser {
 
 @Injectable()
 export class UsersService {
+  private readonly logger = new Logger(UsersService.name);
+
   constructor(
     @InjectRepository(User) private readonly users: Repository<User>,
     private readonly audit: AuditService,
+    private readonly invitations: InvitationsService,
   ) {}
 
   findById(id: string): Promise<User | null> {
@@ -80,7 +88,14 @@ export class UsersService {
       return created;
     });
     const account = toAccount(user);
-    return { ...account, notice: account.pendingInvitation ? PENDING_INVITATION_NOTICE : null };
+    if (!account.pendingInvitation) return { ...account, notice: null };
+    try {
+      await this.invitations.send(actor, user.id);
+      return { ...account, notice: PENDING_INVITATION_NOTICE };
+    } catch (error) {
+      this.logger.error(`An invitation e-mail failed: ${(error as Error)?.message ?? error}`);
+      return { ...account, notice: INVITATION_NOT_SENT_NOTICE };
+    }
   }
 
   /**
@@ -155,6 +170,7 @@ export class UsersService {
       // Deactivation ends every session at once, and a later reactivation does not revive them.
       if (before.active && !active) user.tokenVersion += 1;
       const saved = await repository.save(user);
+      if (before.active && !active) await endUserSessions(manager, saved.id, 'deactivated');
 
       await this.audit.record(
         {

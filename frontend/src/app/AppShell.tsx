@@ -98,6 +98,7 @@ function RoleNavigation({ role }: { role: Role }) {
             <ListItemButton
               component={NavLink}
               to={item.path}
+              end={item.end}
               sx={{
                 borderRadius: 1,
                 borderLeft: 3,

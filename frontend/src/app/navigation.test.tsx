@@ -36,7 +36,16 @@ describe('role navigation', () => {
     renderApp('/registrar');
     await screen.findByRole('heading', { level: 1, name: 'Registrar' });
 
-    expect(navLinks()).toEqual(['Imports and term data', 'Demand outlook']);
+    expect(navLinks()).toEqual([
+      'Registrar overview',
+      'Imports',
+      'Catalogue and terms',
+      'Grade scale',
+      'Model settings',
+      'Backtests',
+      'Demand outlook',
+      'Audit trail',
+    ]);
     expect(screen.queryByRole('link', { name: 'Student lookup' })).toBeNull();
   });
 
@@ -45,7 +54,7 @@ describe('role navigation', () => {
     renderApp('/registrar');
     await screen.findByRole('heading', { level: 1, name: 'Registrar' });
     expect(
-      within(mainNavigation()).getByRole('link', { name: 'Imports and term data' }),
+      within(mainNavigation()).getByRole('link', { name: 'Registrar overview' }),
     ).toHaveAttribute('aria-current', 'page');
   });
 

@@ -5,11 +5,27 @@ export interface RolePage {
   path: string;
   navLabel: string;
   roles: readonly Role[];
+  /** Marked as the current page only on its own path, not on the pages under it. */
+  end?: boolean;
 }
 
 export const PAGES = {
   advising: { path: '/advising', navLabel: 'Student lookup', roles: ['advisor'] },
-  registrar: { path: '/registrar', navLabel: 'Imports and term data', roles: ['registrar'] },
+  registrar: {
+    path: '/registrar',
+    navLabel: 'Registrar overview',
+    roles: ['registrar'],
+    end: true,
+  },
+  imports: { path: '/registrar/imports', navLabel: 'Imports', roles: ['registrar'] },
+  catalogue: {
+    path: '/registrar/catalogue',
+    navLabel: 'Catalogue and terms',
+    roles: ['registrar'],
+  },
+  gradeScale: { path: '/registrar/grade-scale', navLabel: 'Grade scale', roles: ['registrar'] },
+  modelSettings: { path: '/registrar/model', navLabel: 'Model settings', roles: ['registrar'] },
+  backtests: { path: '/registrar/backtests', navLabel: 'Backtests', roles: ['registrar'] },
   outlook: {
     path: '/outlook',
     navLabel: 'Demand outlook',
@@ -17,6 +33,7 @@ export const PAGES = {
     roles: ['department_head', 'registrar'],
   },
   users: { path: '/admin/users', navLabel: 'Users', roles: ['admin'] },
+  audit: { path: '/audit', navLabel: 'Audit trail', roles: ['admin', 'registrar'] },
 } as const satisfies Record<string, RolePage>;
 
 export type PageKey = keyof typeof PAGES;
@@ -24,9 +41,18 @@ export type PageKey = keyof typeof PAGES;
 /** Navigation order per role: the landing page first. */
 const NAVIGATION: Record<Role, readonly PageKey[]> = {
   advisor: ['advising'],
-  registrar: ['registrar', 'outlook'],
+  registrar: [
+    'registrar',
+    'imports',
+    'catalogue',
+    'gradeScale',
+    'modelSettings',
+    'backtests',
+    'outlook',
+    'audit',
+  ],
   department_head: ['outlook'],
-  admin: ['users'],
+  admin: ['users', 'audit'],
 };
 
 export function navigationFor(role: Role): RolePage[] {

@@ -95,7 +95,11 @@ export interface ElectiveEstimate {
   neighbours: { grade: number; satisfaction: number };
 }
 
-/** `GET /api/students/:ref/electives?term=`. */
+/**
+ * `GET /api/students/:ref/electives?term=&includeNotOffered=`: the electives
+ * offered in the term (default the next term), or every elective of the
+ * catalogue with `includeNotOffered=true` (those not offered say so).
+ */
 export interface ElectivesResponse {
   term: string;
   /** The model settings version these estimates were computed with. */

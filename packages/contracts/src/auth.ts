@@ -20,6 +20,10 @@ export interface UserSummary {
 export interface LoginResponse {
   accessToken: string;
   user: UserSummary;
+  /** When this access token expires (ISO 8601); renew it before then with `POST /api/auth/refresh`. */
+  expiresAt?: string;
+  /** When the session ends for good, whatever the renewals (12 hours after sign-in). */
+  sessionExpiresAt?: string;
 }
 
 export interface UserRecord extends UserSummary {

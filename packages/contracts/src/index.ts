@@ -10,3 +10,6 @@ export * from './grade-scale';
 export * from './catalogue';
 export * from './model-settings';
 export * from './advising';
+export * from './accounts';
+export * from './evaluations';
+export * from './forecasts';

@@ -224,18 +224,16 @@ export function explain(
   const isKin = o.basis[0] === BASIS_NEIGHBOURS;
   const d = model.signals[signal];
   const kin: Explanation['kin'] = [];
+  const hood = n > 0 ? scorer.neighboursOf(signal, j, a, st).slice(0, n) : [];
   let den = 0;
-  for (let q = 0; q < n; q++) den += Math.abs(scorer.slotW[signal][q]);
-  for (let q = 0; q < n; q++) {
-    const i = scorer.slotStudent[signal][q];
-    const w = scorer.slotW[signal][q];
-    const value = scorer.slotValue[signal][q];
+  for (const x of hood) den += Math.abs(x.w);
+  for (const x of hood) {
     kin.push({
-      student: model.studentKeys[i],
-      similarity: w,
-      weight: den > 0 ? w / den : 1 / n,
-      value,
-      deviation: value - d.mean[i],
+      student: model.studentKeys[x.student],
+      similarity: x.w,
+      weight: den > 0 ? x.w / den : 1 / n,
+      value: x.value,
+      deviation: x.value - d.mean[x.student],
     });
   }
   let outcomes: Explanation['outcomes'] = null;

@@ -60,7 +60,23 @@ export interface SignalData {
   colCentered: Float64Array | null;
   iuf: Float64Array | null;
   norms: Partial<Record<string, Float64Array>>;
+  dense: Partial<Record<string, DenseBlock>>;
 }
+
+/**
+ * Courses that most students have, stored student-major (x of student i in dense course g at
+ * i * width + g, 0 when i has no value), so their similarity terms are added in one sequential
+ * pass over all students instead of a scatter per course.
+ */
+export interface DenseBlock {
+  /** Dense position of each course, -1 for a course kept sparse. */
+  slot: Int32Array;
+  width: number;
+  x: Float64Array;
+}
+
+/** A course is dense when at least this share of students has a value in it. */
+export const DENSE_SHARE = 0.25;
 
 export interface Model {
   studentKeys: string[];
@@ -70,6 +86,8 @@ export interface Model {
   /** Rank of each student key in string order: the tie rule of the neighbourhood. */
   studentRank: Int32Array;
   signals: Record<Signal, SignalData>;
+  /** Both signals' courses per student in one row, made on first use (see unionRows). */
+  union: UnionRows | null;
   scales: Partial<Record<Signal, Scale>>;
 }
 
@@ -317,6 +335,7 @@ function buildSignal(table: RecordTable, signal: Signal, mask: Uint8Array | null
     colCentered: null,
     iuf: null,
     norms: {},
+    dense: {},
   };
 }
 
@@ -347,6 +366,7 @@ export function modelFromTable(table: RecordTable, mask: Uint8Array | null = nul
       satisfaction: buildSignal(table, 'satisfaction', mask),
     },
     scales: table.scales,
+    union: null,
   };
 }
 
@@ -366,6 +386,7 @@ export interface SimilarityView {
   rowX: Float64Array; // x_uj in student order
   colX: Float64Array; // x_uj in course order
   norm: Float64Array; // sqrt(sum_j (f_j x_uj)^2) over the student's own courses
+  dense: DenseBlock;
 }
 
 export function similarityView(model: Model, settings: Settings): SimilarityView {
@@ -380,16 +401,14 @@ export function similarityView(model: Model, settings: Settings): SimilarityView
     }
     d.iuf = iuf;
   }
-  if (!d.rowCentered || !d.colCentered) {
+  if (!d.rowCentered) {
     const rc = sharedF64(d.rowValue.length);
     for (let s = 0; s < S; s++) {
       for (let p = d.rowPtr[s]; p < d.rowPtr[s + 1]; p++) rc[p] = d.rowValue[p] - d.mean[s];
     }
-    const cc = sharedF64(d.colValue.length);
-    for (let p = 0; p < cc.length; p++) cc[p] = d.colValue[p] - d.mean[d.colStudent[p]];
     d.rowCentered = rc;
-    d.colCentered = cc;
   }
+  centeredColumns(d);
   const center = settings.similarity === 'pearson' || settings.center;
   const f = settings.iuf ? (d.iuf as Float64Array) : ones(C);
   const rowX = center ? (d.rowCentered as Float64Array) : d.rowValue;
@@ -408,7 +427,32 @@ export function similarityView(model: Model, settings: Settings): SimilarityView
     }
     d.norms[key] = norm;
   }
-  return { data: d, f, rowX, colX, norm };
+  const dkey = center ? 'c' : 'r';
+  let dense = d.dense[dkey];
+  if (!dense) {
+    dense = denseBlock(d, C, S, rowX);
+    d.dense[dkey] = dense;
+  }
+  return { data: d, f, rowX, colX, norm, dense };
+}
+
+function denseBlock(d: SignalData, C: number, S: number, rowX: Float64Array): DenseBlock {
+  const slot = sharedI32(C).fill(-1);
+  let width = 0;
+  for (let c = 0; c < C; c++) {
+    const n = d.colPtr[c + 1] - d.colPtr[c];
+    if (n > 0 && n >= DENSE_SHARE * S) slot[c] = width++;
+  }
+  const x = sharedF64(width * S);
+  if (width > 0) {
+    for (let s = 0; s < S; s++) {
+      for (let p = d.rowPtr[s]; p < d.rowPtr[s + 1]; p++) {
+        const g = slot[d.rowCourse[p]];
+        if (g >= 0) x[s * width + g] = rowX[p];
+      }
+    }
+  }
+  return { slot, width, x };
 }
 
 const onesCache = new Map<number, Float64Array>();
@@ -421,7 +465,127 @@ function ones(n: number): Float64Array {
   return a;
 }
 
+/** r_uj - m_u in course order (the neighbours' deviations a scan reads); made once. */
+export function centeredColumns(d: SignalData): Float64Array {
+  if (!d.colCentered) {
+    const cc = sharedF64(d.colValue.length);
+    for (let p = 0; p < cc.length; p++) cc[p] = d.colValue[p] - d.mean[d.colStudent[p]];
+    d.colCentered = cc;
+  }
+  return d.colCentered;
+}
+
 /** Every derived array for the given settings, so that a snapshot carries them to workers. */
 export function prepare(model: Model, settings: Settings): void {
   similarityView(model, settings);
+  unionRows(model);
+  for (const s of SIGNALS) centeredColumns(model.signals[s]);
+}
+
+/**
+ * Every course a student has a value for in either signal, ascending, one 32-bit entry each:
+ * course * 2^16 + (grade value id + 1) * 2^9 + (satisfaction value id + 1) * 4 + bits (1: has
+ * a grade, 2: has a satisfaction value); id + 1 is 0 when there is no value. Walking
+ * neighbours for both signals reads this one compact row instead of two rows of courses and
+ * values. Possible when there are at most 2^15 courses and 127 distinct values per signal
+ * (grade points of a scale, 1-5); otherwise `ok` is false and walks read both rows.
+ */
+export interface UnionRows {
+  ok: boolean;
+  ptr: Int32Array;
+  code: Int32Array;
+  /** The distinct values per signal, by id. */
+  gradeValues: Float64Array;
+  satisfactionValues: Float64Array;
+}
+
+const MAX_VALUE_IDS = 127;
+
+/** Distinct values of a signal by id (first-seen order), or null when there are too many. */
+function valueIds(d: SignalData): { ids: Int32Array; values: Float64Array } | null {
+  const idOf = new Map<number, number>();
+  const values: number[] = [];
+  const ids = new Int32Array(d.rowValue.length);
+  for (let p = 0; p < d.rowValue.length; p++) {
+    const v = d.rowValue[p];
+    let id = idOf.get(v);
+    if (id === undefined) {
+      if (values.length === MAX_VALUE_IDS) return null;
+      id = values.length;
+      idOf.set(v, id);
+      values.push(v);
+    }
+    // -0 and 0 share a map key; keep the exact value or give up.
+    if (!Object.is(values[id], v)) return null;
+    ids[p] = id;
+  }
+  const out = sharedF64(values.length);
+  out.set(values);
+  return { ids, values: out };
+}
+
+export function unionRows(model: Model): UnionRows {
+  if (model.union) return model.union;
+  const g = model.signals.grade;
+  const s = model.signals.satisfaction;
+  const S = model.studentKeys.length;
+  const gi = valueIds(g);
+  const si = valueIds(s);
+  if (!gi || !si || model.courseKeys.length > 1 << 15) {
+    model.union = {
+      ok: false,
+      ptr: sharedI32(0),
+      code: sharedI32(0),
+      gradeValues: sharedF64(0),
+      satisfactionValues: sharedF64(0),
+    };
+    return model.union;
+  }
+  const ptr = sharedI32(S + 1);
+  for (let u = 0; u < S; u++) {
+    let p = g.rowPtr[u];
+    let q = s.rowPtr[u];
+    const pe = g.rowPtr[u + 1];
+    const qe = s.rowPtr[u + 1];
+    let n = 0;
+    while (p < pe || q < qe) {
+      const a = p < pe ? g.rowCourse[p] : 0x7fffffff;
+      const b = q < qe ? s.rowCourse[q] : 0x7fffffff;
+      if (a <= b) p++;
+      if (b <= a) q++;
+      n++;
+    }
+    ptr[u + 1] = ptr[u] + n;
+  }
+  const code = sharedI32(ptr[S]);
+  let e = 0;
+  for (let u = 0; u < S; u++) {
+    let p = g.rowPtr[u];
+    let q = s.rowPtr[u];
+    const pe = g.rowPtr[u + 1];
+    const qe = s.rowPtr[u + 1];
+    while (p < pe || q < qe) {
+      const a = p < pe ? g.rowCourse[p] : 0x7fffffff;
+      const b = q < qe ? s.rowCourse[q] : 0x7fffffff;
+      const c = a <= b ? a : b;
+      let x = c * 65536;
+      if (a === c) {
+        x += (gi.ids[p] + 1) * 512 + 1;
+        p++;
+      }
+      if (b === c) {
+        x += (si.ids[q] + 1) * 4 + 2;
+        q++;
+      }
+      code[e++] = x;
+    }
+  }
+  model.union = {
+    ok: true,
+    ptr,
+    code,
+    gradeValues: gi.values,
+    satisfactionValues: si.values,
+  };
+  return model.union;
 }

@@ -1,6 +1,6 @@
-import { Model, SignalData } from './model';
+import { centeredColumns, Model, SignalData, UnionRows, unionRows } from './model';
 import { SimilarityWorkspace } from './similarity';
-import { Basis, Confidence, Scale, Settings, Signal } from './types';
+import { Basis, Confidence, Scale, Settings, Signal, SIGNALS } from './types';
 
 export const BASIS_NONE = 0;
 export const BASIS_BASELINE = 1;
@@ -72,66 +72,117 @@ export function baselineValue(d: SignalData, a: number, j: number, scale?: Scale
   return clamp(d.globalMean + (a >= 0 ? d.studentBias[a] : 0) + d.courseBias[j], scale);
 }
 
-const BUCKETS = 1024;
-/** Below this much scanning, scan directly when walking every candidate would cost more. */
+/** Below this much scanning in all, scan without walking when walking every candidate costs more. */
 const WALK_FIRST_MIN = 20_000;
+/**
+ * Cost of a walked row entry relative to a scanned column entry, for the choice of where the
+ * walk stops.
+ */
+const WALK_COST = 1;
+/** Fewest and most weight buckets for the best-first order of candidates. */
+const MIN_BUCKETS = 256;
+const MAX_BUCKETS = 65_536;
+/** The bucket key of a student who is no candidate: after every bucket. */
+const NO_KEY = 65_535;
+/** A neighbourhood slot: w(a, i) and r_ij - m_i, side by side. */
+const SLOT = 2;
+/** Signal bits in course codes and union rows. */
+const GRADE_BIT = 1;
+const SATISFACTION_BIT = 2;
+
+function bitOf(s: Signal): number {
+  return s === 'grade' ? GRADE_BIT : SATISFACTION_BIT;
+}
 
 /**
  * Scores one student over a list of courses: neighbourhoods, predictions, basis and spread,
- * for one or both signals from the same similarities. One Scorer per thread; not reentrant.
+ * for one or both signals from the same similarities. One Scorer per thread; not reentrant;
+ * its scratch arrays are sized to the model once and reused.
  *
  * Neighbourhoods are the k best candidates by (w descending, student key ascending). Two exact
  * routes give the same sets: walking candidates best-first and filling every course at once
- * (cheap for popular courses), and scanning a course's students with a small heap (cheap for
- * rare ones). The scorer walks while walking is cheaper than scanning what is left unfilled.
+ * (cheap for popular courses), and scanning a course's students (cheap for rare ones). The
+ * scorer walks while walking is cheaper than scanning what is left with room, then scans the
+ * courses still short of k from scratch.
  */
 export class Scorer {
   readonly ws: SimilarityWorkspace;
   readonly out: Record<Signal, SignalScores>;
-  /** Neighbourhoods of the last call: target t, signal s -> slots [t*k, t*k + fill). */
-  slotStudent: Record<Signal, Int32Array>;
-  slotW: Record<Signal, Float64Array>;
-  slotValue: Record<Signal, Float64Array>;
+  /** Neighbourhood sizes of the last call per target position. */
   fill: Record<Signal, Int32Array>;
   k = 0;
   /** Work of the last call (entries visited), for benchmarks. */
   stats = { candidates: 0, walked: 0, scanned: 0 };
+  /** Neighbourhoods of the last call: target t -> records [t*k, t*k + fill), best first. */
+  private slots: Record<Signal, Float64Array>;
   private cap = 0;
   private readonly cand: Int32Array;
   private readonly sorted: Int32Array;
-  private readonly courseTarget: Int32Array;
-  private readonly bucketStart = new Int32Array(BUCKETS + 1);
-  private hIdx = new Int32Array(0);
-  private hW = new Float64Array(0);
-  private hVal = new Float64Array(0);
+  /**
+   * Per course: 0 when not a target, else (first target position + 1) * 4 + signal bits, a
+   * bit set while that signal's neighbourhood has room.
+   */
+  private readonly code: Int32Array;
+  /**
+   * Weight bucket of each candidate (NO_KEY for the rest), monotone in w: a scan rejects most
+   * entries by this small array without reading w.
+   */
+  private readonly key: Uint16Array;
+  private readonly bucketStart: Int32Array;
+  private bufQ = new Int32Array(0);
+  private bufK = new Int32Array(0);
 
   constructor(readonly model: Model) {
     this.ws = new SimilarityWorkspace(model);
     const S = model.studentKeys.length;
     this.cand = new Int32Array(S);
     this.sorted = new Int32Array(S);
-    this.courseTarget = new Int32Array(model.courseKeys.length).fill(-1);
+    this.key = new Uint16Array(S);
+    this.code = new Int32Array(model.courseKeys.length);
+    this.bucketStart = new Int32Array(bucketCount(S) + 1);
     this.out = { grade: allocScores(0), satisfaction: allocScores(0) };
-    this.slotStudent = { grade: new Int32Array(0), satisfaction: new Int32Array(0) };
-    this.slotW = { grade: new Float64Array(0), satisfaction: new Float64Array(0) };
-    this.slotValue = { grade: new Float64Array(0), satisfaction: new Float64Array(0) };
+    this.slots = { grade: new Float64Array(0), satisfaction: new Float64Array(0) };
     this.fill = { grade: new Int32Array(0), satisfaction: new Int32Array(0) };
   }
 
-  private ensure(T: number, k: number, signals: readonly Signal[]): void {
+  /**
+   * The neighbourhood of course j in signal s, listed directly from the course's students
+   * with the similarities of the last call (student a): best first by (w desc, key asc), at
+   * most k. The same set the last call predicted from; for explanations and audits.
+   */
+  neighboursOf(
+    s: Signal,
+    j: number,
+    a: number,
+    settings: Settings,
+  ): { student: number; w: number; value: number }[] {
+    if (j < 0) return [];
+    const d = this.model.signals[s];
+    const w = this.ws.w;
+    const rank = this.model.studentRank;
+    const list: { student: number; w: number; value: number }[] = [];
+    for (let q = d.colPtr[j]; q < d.colPtr[j + 1]; q++) {
+      const i = d.colStudent[q];
+      if (i !== a && w[i] > settings.minSimilarity) {
+        list.push({ student: i, w: w[i], value: d.colValue[q] });
+      }
+    }
+    list.sort((x, y) => y.w - x.w || rank[x.student] - rank[y.student]);
+    return list.slice(0, Math.max(0, Math.floor(settings.k)));
+  }
+
+  private ensure(T: number, k: number): void {
     if (T > this.cap || k !== this.k) {
       this.cap = Math.max(T, this.cap);
       this.k = k;
-      for (const s of ['grade', 'satisfaction'] as const) {
+      for (const s of SIGNALS) {
         this.out[s] = allocScores(this.cap);
-        this.slotStudent[s] = new Int32Array(this.cap * k);
-        this.slotW[s] = new Float64Array(this.cap * k);
-        this.slotValue[s] = new Float64Array(this.cap * k);
+        this.slots[s] = new Float64Array(this.cap * k * SLOT);
         this.fill[s] = new Int32Array(this.cap);
       }
-      this.hIdx = new Int32Array(k);
-      this.hW = new Float64Array(k);
-      this.hVal = new Float64Array(k);
+      const size = Math.max(2 * k, k + 16);
+      this.bufQ = new Int32Array(size);
+      this.bufK = new Int32Array(size);
     }
   }
 
@@ -148,54 +199,87 @@ export class Scorer {
     const model = this.model;
     const T = targets.length;
     const k = Math.max(0, Math.floor(settings.k));
-    this.ensure(T, k, signals);
+    this.ensure(T, k);
+    const sig: Signal[] = [];
+    for (const s of signals) if (!sig.includes(s)) sig.push(s);
     const ws = this.ws;
     ws.compute(a, settings, false);
     const w = ws.w;
-    const rank = model.studentRank;
     const minSim = settings.minSimilarity;
     const nc =
-      minSim < 0
+      ws.dense || minSim < 0
         ? // Students sharing nothing have w = 0, which passes a negative threshold.
           collectAll(model.studentKeys.length, w, a, minSim, this.cand)
         : collectCandidates(ws.touched, ws.nTouched, w, a, minSim, this.cand);
 
-    const courseTarget = this.courseTarget;
+    const code = this.code;
     for (let t = 0; t < T; t++) {
       const j = targets[t];
-      if (j >= 0 && courseTarget[j] < 0) courseTarget[j] = t;
+      if (j >= 0 && code[j] === 0) code[j] = (t + 1) << 2;
     }
     let remainingScan = 0;
-    let remainingWalk = 0;
-    for (const s of signals) {
-      const fill = this.fill[s];
-      const d = model.signals[s];
-      fill.fill(0, 0, T);
-      if (k > 0) remainingScan += scanCost(targets, courseTarget, d.colPtr);
-      remainingWalk += rowLengthSum(this.cand, nc, d.rowPtr);
+    for (const s of sig) {
+      this.fill[s].fill(0, 0, T);
+      if (k > 0) remainingScan += openTargets(targets, code, model.signals[s].colPtr, bitOf(s));
     }
-
     this.stats.candidates = nc;
     this.stats.walked = 0;
     this.stats.scanned = 0;
-    const walkedAll = this.walk(nc, remainingWalk, remainingScan, signals);
 
-    // Scan what the walk left unfilled.
-    if (!walkedAll) {
-      for (const s of signals) {
+    let keyed = false;
+    if (nc > 0 && remainingScan > 0) {
+      // Scanning everything is cheaper than walking every candidate: no walk at all.
+      let scanOnly = false;
+      if (remainingScan <= WALK_FIRST_MIN) {
+        let walkAll = 0;
+        for (const s of sig) walkAll += rowLengthSum(this.cand, nc, model.signals[s].rowPtr);
+        scanOnly = remainingScan <= walkAll;
+      }
+      if (!scanOnly) {
+        remainingScan = this.walk(nc, remainingScan, sig);
+        keyed = true;
+      }
+    } else remainingScan = 0;
+
+    // Scan what the walk left with room; a neighbourhood with room after a full walk is final.
+    if (remainingScan > 0) {
+      if (!keyed) this.key.fill(0);
+      const rank = model.studentRank;
+      for (const s of sig) {
+        const bit = bitOf(s);
         const fill = this.fill[s];
         const d = model.signals[s];
+        const dev = centeredColumns(d);
+        const slots = this.slots[s];
         for (let t = 0; t < T; t++) {
           const j = targets[t];
-          if (j < 0 || courseTarget[j] !== t || fill[t] >= k) continue;
-          if (d.colPtr[j + 1] === d.colPtr[j]) continue;
-          fill[t] = this.scanCourse(d, j, a, minSim, w, rank, k, s, t);
+          if (j < 0) continue;
+          const c = code[j];
+          if (c >> 2 !== t + 1 || (c & bit) === 0) continue;
+          fill[t] = scanTopK(
+            d.colStudent,
+            dev,
+            d.colPtr[j],
+            d.colPtr[j + 1],
+            a,
+            minSim,
+            w,
+            this.key,
+            // Without buckets every key is 0 and every entry is judged by w.
+            keyed ? NO_KEY : 0,
+            rank,
+            k,
+            this.bufQ,
+            this.bufK,
+            slots,
+            t * k,
+          );
           this.stats.scanned += d.colPtr[j + 1] - d.colPtr[j];
         }
       }
     }
 
-    for (const s of signals) {
+    for (const s of sig) {
       const d = model.signals[s];
       const scale = model.scales[s];
       const o = this.out[s];
@@ -203,13 +287,11 @@ export class Scorer {
         d,
         a,
         targets,
-        courseTarget,
+        code,
         this.fill[s],
         k,
         Math.max(1, settings.minNeighbours),
-        this.slotStudent[s],
-        this.slotW[s],
-        this.slotValue[s],
+        this.slots[s],
         // Plain numbers, not scale objects: one shape for the optimiser.
         scale ? scale.min : -Infinity,
         scale ? scale.max : Infinity,
@@ -221,114 +303,96 @@ export class Scorer {
         o.confidence,
       );
     }
-    for (let t = 0; t < T; t++) if (targets[t] >= 0) courseTarget[targets[t]] = -1;
+    for (let t = 0; t < T; t++) if (targets[t] >= 0) code[targets[t]] = 0;
   }
 
-  /** Best-first walk over candidates. Returns true when every neighbourhood is final. */
-  private walk(
-    nc: number,
-    remainingWalk: number,
-    remainingScan: number,
-    signals: readonly Signal[],
-  ): boolean {
-    if (nc === 0 || remainingScan === 0) return true;
-    // Scanning everything is cheaper than walking every candidate: no walk at all.
-    if (remainingScan <= remainingWalk && remainingScan <= WALK_FIRST_MIN) return false;
-    let walked = 0;
+  /**
+   * Best-first walk over candidates. Stops once the walk has cost as much as scanning what is
+   * still open (within 2x of the best stopping point). Returns the scan cost still to do, 0 when
+   * every neighbourhood is final. Leaves every student's bucket key set.
+   */
+  private walk(nc: number, remainingScan: number, sig: readonly Signal[]): number {
     const model = this.model;
     const w = this.ws.w;
     const rank = model.studentRank;
     const k = this.k;
     const sorted = this.sorted;
     const bs = this.bucketStart;
-    bucketByWeight(this.cand, nc, w, sorted, bs);
-    const order = (x: number, y: number): number => w[y] - w[x] || rank[x] - rank[y];
-    const s0 = signals[0];
-    const s1 = signals.length > 1 ? signals[1] : signals[0];
-    const two = signals.length > 1;
-    const d0 = model.signals[s0];
-    const d1 = model.signals[s1];
-    const courseTarget = this.courseTarget;
-    for (let b = 0; b < BUCKETS; b++) {
+    this.key.fill(NO_KEY);
+    const nb = bucketByWeight(this.cand, nc, w, sorted, bs, bucketCount(nc), this.key);
+    const g = model.signals.grade;
+    const sa = model.signals.satisfaction;
+    const both = sig.length > 1;
+    const u = both ? unionRows(model) : null;
+    const union = u !== null && u.ok;
+    const d = model.signals[sig[0]];
+    const bit = bitOf(sig[0]);
+    const d1 = model.signals[sig[both ? 1 : 0]];
+    const bit1 = bitOf(sig[both ? 1 : 0]);
+    const code = this.code;
+    let walked = 0;
+    for (let b = 0; b < nb; b++) {
       const start = bs[b];
       const end = bs[b + 1];
-      if (end - start > 1) sorted.subarray(start, end).sort(order);
+      if (end - start > 1) sortByWeight(sorted, start, end - 1, w, rank);
       for (let c = start; c < end; c++) {
-        if (remainingScan === 0) return true;
-        // Walk until the walk has cost as much as scanning what is left (within 2x of the
-        // best stopping point), then scan the rest.
-        this.stats.walked = walked;
-        if (walked >= remainingScan) return false;
+        if (walked * WALK_COST >= remainingScan) {
+          this.stats.walked = walked;
+          return remainingScan;
+        }
         const i = sorted[c];
         const wi = w[i];
-        walked += d0.rowPtr[i + 1] - d0.rowPtr[i];
-        remainingScan -= walkRow(
-          d0.rowPtr,
-          d0.rowCourse,
-          d0.rowValue,
-          d0.colPtr,
-          i,
-          wi,
-          courseTarget,
-          this.fill[s0],
-          k,
-          this.slotStudent[s0],
-          this.slotW[s0],
-          this.slotValue[s0],
-        );
-        if (two) {
-          walked += d1.rowPtr[i + 1] - d1.rowPtr[i];
-          remainingScan -= walkRow(
-            d1.rowPtr,
-            d1.rowCourse,
-            d1.rowValue,
-            d1.colPtr,
+        if (union) {
+          const uu = u as UnionRows;
+          walked += uu.ptr[i + 1] - uu.ptr[i];
+          remainingScan -= walkUnion(
+            uu.ptr,
+            uu.code,
             i,
             wi,
-            courseTarget,
-            this.fill[s1],
+            code,
             k,
-            this.slotStudent[s1],
-            this.slotW[s1],
-            this.slotValue[s1],
+            uu.gradeValues,
+            g.colPtr,
+            g.mean[i],
+            this.fill.grade,
+            this.slots.grade,
+            uu.satisfactionValues,
+            sa.colPtr,
+            sa.mean[i],
+            this.fill.satisfaction,
+            this.slots.satisfaction,
           );
+        } else {
+          walked += d.rowPtr[i + 1] - d.rowPtr[i];
+          remainingScan -= walkRow(d, i, wi, code, bit, this.fill[sig[0]], k, this.slots[sig[0]]);
+          if (both) {
+            walked += d1.rowPtr[i + 1] - d1.rowPtr[i];
+            remainingScan -= walkRow(
+              d1,
+              i,
+              wi,
+              code,
+              bit1,
+              this.fill[sig[1]],
+              k,
+              this.slots[sig[1]],
+            );
+          }
+        }
+        if (remainingScan === 0) {
+          this.stats.walked = walked;
+          return 0;
         }
       }
     }
-    return true;
+    this.stats.walked = walked;
+    return 0;
   }
+}
 
-  /** Top-k of one course by (w desc, key asc), written best first into the slots. */
-  private scanCourse(
-    d: SignalData,
-    j: number,
-    a: number,
-    minSim: number,
-    w: Float64Array,
-    rank: Int32Array,
-    k: number,
-    s: Signal,
-    t: number,
-  ): number {
-    return scanTopK(
-      d.colStudent,
-      d.colValue,
-      d.colPtr[j],
-      d.colPtr[j + 1],
-      a,
-      minSim,
-      w,
-      rank,
-      k,
-      this.hIdx,
-      this.hW,
-      this.hVal,
-      this.slotStudent[s],
-      this.slotW[s],
-      this.slotValue[s],
-      t * k,
-    );
-  }
+function bucketCount(n: number): number {
+  return Math.min(MAX_BUCKETS, Math.max(MIN_BUCKETS, 2 * n));
 }
 
 function collectCandidates(
@@ -355,19 +419,29 @@ function collectAll(
   cand: Int32Array,
 ): number {
   let nc = 0;
-  for (let i = 0; i < S; i++) if (i !== a && w[i] > minSim) cand[nc++] = i;
+  for (let i = 0; i < S; i++) if (w[i] > minSim && i !== a) cand[nc++] = i;
   return nc;
 }
 
-function scanCost(
+/**
+ * Mark each distinct target course with a value in the signal as open (bit), and return the
+ * cost of scanning them all.
+ */
+function openTargets(
   targets: ArrayLike<number>,
-  courseTarget: Int32Array,
+  code: Int32Array,
   colPtr: Int32Array,
+  bit: number,
 ): number {
   let sum = 0;
   for (let t = 0; t < targets.length; t++) {
     const j = targets[t];
-    if (j >= 0 && courseTarget[j] === t) sum += colPtr[j + 1] - colPtr[j];
+    if (j < 0 || code[j] >> 2 !== t + 1) continue;
+    const n = colPtr[j + 1] - colPtr[j];
+    if (n > 0) {
+      code[j] |= bit;
+      sum += n;
+    }
   }
   return sum;
 }
@@ -378,14 +452,33 @@ function rowLengthSum(cand: Int32Array, nc: number, rowPtr: Int32Array): number 
   return sum;
 }
 
-/** Counting sort of candidates into buckets of w, best bucket first. */
+// The upper 32 bits of a double: for positive numbers they grow with the number, so they give
+// logarithmic buckets (a fixed share of each power of two) that are exactly monotone.
+const f64 = new Float64Array(1);
+const u32 = new Uint32Array(f64.buffer);
+const HIGH = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1 ? 1 : 0;
+/** Octaves below the largest w that logarithmic buckets tell apart. */
+const LOG_OCTAVES = 24;
+function highBits(x: number): number {
+  f64[0] = x;
+  return u32[HIGH];
+}
+
+/**
+ * Counting sort of candidates into buckets of w, best bucket first; bucket b is
+ * sorted[bs[b], bs[b + 1]) and key[i] = b. The bucket of w is monotone in w, so sorting each
+ * bucket by (w desc, rank asc) gives the full order. Buckets are logarithmic when every
+ * candidate has w > 0 (most candidates have a small w), linear otherwise.
+ */
 function bucketByWeight(
   cand: Int32Array,
   nc: number,
   w: Float64Array,
   sorted: Int32Array,
   bs: Int32Array,
-): void {
+  maxBuckets: number,
+  key: Uint16Array,
+): number {
   let lo = Infinity;
   let hi = -Infinity;
   for (let c = 0; c < nc; c++) {
@@ -393,49 +486,210 @@ function bucketByWeight(
     if (x < lo) lo = x;
     if (x > hi) hi = x;
   }
-  bs.fill(0);
-  const scale = hi > lo ? (BUCKETS - 1) / (hi - lo) : 0;
-  for (let c = 0; c < nc; c++) bs[Math.floor((hi - w[cand[c]]) * scale) + 1]++;
-  for (let b = 0; b < BUCKETS; b++) bs[b + 1] += bs[b];
-  const pos = bs.slice(0, BUCKETS);
+  let nb: number;
+  if (lo > 0) {
+    const top = highBits(hi);
+    // Everything below hi / 2^LOG_OCTAVES shares the last bucket.
+    const range = Math.min(top - highBits(lo), LOG_OCTAVES << 20);
+    let shift = 0;
+    while (range >>> shift >= maxBuckets) shift++;
+    nb = (range >>> shift) + 1;
+    const last = nb - 1;
+    bs.fill(0, 0, nb + 1);
+    for (let c = 0; c < nc; c++) {
+      const i = cand[c];
+      const x = (top - highBits(w[i])) >>> shift;
+      const b = x < last ? x : last;
+      key[i] = b;
+      bs[b + 1]++;
+    }
+  } else {
+    nb = maxBuckets;
+    bs.fill(0, 0, nb + 1);
+    const scale = hi > lo ? (nb - 1) / (hi - lo) : 0;
+    for (let c = 0; c < nc; c++) {
+      const i = cand[c];
+      const b = Math.floor((hi - w[i]) * scale);
+      key[i] = b;
+      bs[b + 1]++;
+    }
+  }
+  for (let b = 0; b < nb; b++) bs[b + 1] += bs[b];
+  // Place with bs[b] as the cursor of bucket b; afterwards bs[b] is the end of b, so shift.
   for (let c = 0; c < nc; c++) {
     const i = cand[c];
-    sorted[pos[Math.floor((hi - w[i]) * scale)]++] = i;
+    sorted[bs[key[i]]++] = i;
+  }
+  for (let b = nb; b > 0; b--) bs[b] = bs[b - 1];
+  bs[0] = 0;
+  return nb;
+}
+
+/** Sort idx[lo..hi] (inclusive) by (w descending, rank ascending): quicksort, insertion below 16. */
+function sortByWeight(
+  idx: Int32Array,
+  lo: number,
+  hi: number,
+  w: Float64Array,
+  rank: Int32Array,
+): void {
+  while (hi - lo >= 16) {
+    // Median of three as the pivot.
+    const mid = (lo + hi) >> 1;
+    if (before(idx[mid], idx[lo], w, rank)) swap(idx, mid, lo);
+    if (before(idx[hi], idx[lo], w, rank)) swap(idx, hi, lo);
+    if (before(idx[hi], idx[mid], w, rank)) swap(idx, hi, mid);
+    const pv = idx[mid];
+    const pw = w[pv];
+    const pr = rank[pv];
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      for (;;) {
+        const x = idx[i];
+        const wx = w[x];
+        if (wx > pw || (wx === pw && rank[x] < pr)) i++;
+        else break;
+      }
+      for (;;) {
+        const x = idx[j];
+        const wx = w[x];
+        if (wx < pw || (wx === pw && rank[x] > pr)) j--;
+        else break;
+      }
+      if (i <= j) {
+        swap(idx, i, j);
+        i++;
+        j--;
+      }
+    }
+    // Recurse into the smaller side, loop on the larger.
+    if (j - lo < hi - i) {
+      if (lo < j) sortByWeight(idx, lo, j, w, rank);
+      lo = i;
+    } else {
+      if (i < hi) sortByWeight(idx, i, hi, w, rank);
+      hi = j;
+    }
+  }
+  for (let p = lo + 1; p <= hi; p++) {
+    const x = idx[p];
+    const wx = w[x];
+    const rx = rank[x];
+    let q = p - 1;
+    while (q >= lo) {
+      const y = idx[q];
+      const wy = w[y];
+      if (wy > wx || (wy === wx && rank[y] < rx)) break;
+      idx[q + 1] = y;
+      q--;
+    }
+    idx[q + 1] = x;
   }
 }
 
+function before(x: number, y: number, w: Float64Array, rank: Int32Array): boolean {
+  return w[x] > w[y] || (w[x] === w[y] && rank[x] < rank[y]);
+}
+
+function swap(idx: Int32Array, p: number, q: number): void {
+  const t = idx[p];
+  idx[p] = idx[q];
+  idx[q] = t;
+}
+
 /**
- * Add candidate i to the neighbourhood of every target course in its row that still has room.
+ * Add candidate i to the neighbourhood of every open target course in its row (one signal).
  * Returns the scan cost that no longer needs doing (courses that just filled).
  */
 function walkRow(
-  rowPtr: Int32Array,
-  rowCourse: Int32Array,
-  rowValue: Float64Array,
-  colPtr: Int32Array,
+  d: SignalData,
   i: number,
   wi: number,
-  courseTarget: Int32Array,
+  code: Int32Array,
+  bit: number,
   fill: Int32Array,
   k: number,
-  stu: Int32Array,
-  sw: Float64Array,
-  val: Float64Array,
+  slots: Float64Array,
+): number {
+  const rowCourse = d.rowCourse;
+  const rowValue = d.rowValue;
+  const mi = d.mean[i];
+  let saved = 0;
+  const e = d.rowPtr[i + 1];
+  for (let p = d.rowPtr[i]; p < e; p++) {
+    const j = rowCourse[p];
+    const c = code[j];
+    if ((c & bit) === 0) continue;
+    const t = (c >> 2) - 1;
+    const f = fill[t];
+    const r = (t * k + f) * SLOT;
+    slots[r] = wi;
+    slots[r + 1] = rowValue[p] - mi;
+    fill[t] = f + 1;
+    if (f + 1 === k) {
+      code[j] = c ^ bit;
+      saved += d.colPtr[j + 1] - d.colPtr[j];
+    }
+  }
+  return saved;
+}
+
+/**
+ * walkRow for both signals at once over the union row; values come from the value ids in
+ * the row entries, so only the compact row is read.
+ */
+function walkUnion(
+  uPtr: Int32Array,
+  uCode: Int32Array,
+  i: number,
+  wi: number,
+  code: Int32Array,
+  k: number,
+  gValues: Float64Array,
+  gColPtr: Int32Array,
+  gMean: number,
+  gFill: Int32Array,
+  gSlots: Float64Array,
+  sValues: Float64Array,
+  sColPtr: Int32Array,
+  sMean: number,
+  sFill: Int32Array,
+  sSlots: Float64Array,
 ): number {
   let saved = 0;
-  const e = rowPtr[i + 1];
-  for (let p = rowPtr[i]; p < e; p++) {
-    const j = rowCourse[p];
-    const t = courseTarget[j];
-    if (t < 0) continue;
-    const f = fill[t];
-    if (f >= k) continue;
-    const slot = t * k + f;
-    stu[slot] = i;
-    sw[slot] = wi;
-    val[slot] = rowValue[p];
-    fill[t] = f + 1;
-    if (f + 1 === k) saved += colPtr[j + 1] - colPtr[j];
+  const e = uPtr[i + 1];
+  for (let p = uPtr[i]; p < e; p++) {
+    const x = uCode[p];
+    const j = x >> 16;
+    const c = code[j];
+    const hit = c & x & 3;
+    if (hit === 0) continue;
+    const t = (c >> 2) - 1;
+    let cc = c;
+    if (hit & GRADE_BIT) {
+      const f = gFill[t];
+      const r = (t * k + f) * SLOT;
+      gSlots[r] = wi;
+      gSlots[r + 1] = gValues[((x >> 9) & 127) - 1] - gMean;
+      gFill[t] = f + 1;
+      if (f + 1 === k) {
+        cc ^= GRADE_BIT;
+        saved += gColPtr[j + 1] - gColPtr[j];
+      }
+    }
+    if (hit & SATISFACTION_BIT) {
+      const f = sFill[t];
+      const r = (t * k + f) * SLOT;
+      sSlots[r] = wi;
+      sSlots[r + 1] = sValues[((x >> 2) & 127) - 1] - sMean;
+      sFill[t] = f + 1;
+      if (f + 1 === k) {
+        cc ^= SATISFACTION_BIT;
+        saved += sColPtr[j + 1] - sColPtr[j];
+      }
+    }
+    code[j] = cc;
   }
   return saved;
 }
@@ -445,13 +699,11 @@ function predictFromSlots(
   d: SignalData,
   a: number,
   targets: ArrayLike<number>,
-  courseTarget: Int32Array,
+  code: Int32Array,
   fill: Int32Array,
   k: number,
   need: number,
-  sStu: Int32Array,
-  sW: Float64Array,
-  sVal: Float64Array,
+  slots: Float64Array,
   lo: number,
   hi: number,
   width: number,
@@ -461,12 +713,11 @@ function predictFromSlots(
   spreadOut: Float64Array,
   confidence: Uint8Array,
 ): void {
-  const mean = d.mean;
-  const ma = a >= 0 ? mean[a] : d.globalMean;
+  const ma = a >= 0 ? d.mean[a] : d.globalMean;
   const T = targets.length;
   for (let t = 0; t < T; t++) {
     const j = targets[t];
-    const t0 = j >= 0 ? courseTarget[j] : t;
+    const t0 = j >= 0 ? (code[j] >> 2) - 1 : t;
     if (t0 !== t) {
       // A repeated course: copy the first answer.
       value[t] = value[t0];
@@ -482,26 +733,27 @@ function predictFromSlots(
     if (n >= need) {
       let num = 0;
       let den = 0;
-      const base = t * k;
-      for (let q = base; q < base + n; q++) {
-        const wi = sW[q];
-        num += wi * (sVal[q] - mean[sStu[q]]);
+      const from = t * k * SLOT;
+      const to = from + n * SLOT;
+      for (let q = from; q < to; q += SLOT) {
+        const wi = slots[q];
+        num += wi * slots[q + 1];
         den += Math.abs(wi);
       }
       const dev = den > 0 ? num / den : 0;
       // Weighted spread of deviations around their weighted mean; equal weights if all w = 0.
       let m = 0;
       let tot = 0;
-      for (let q = base; q < base + n; q++) {
-        const u = den > 0 ? Math.abs(sW[q]) : 1;
-        m += u * (sVal[q] - mean[sStu[q]]);
+      for (let q = from; q < to; q += SLOT) {
+        const u = den > 0 ? Math.abs(slots[q]) : 1;
+        m += u * slots[q + 1];
         tot += u;
       }
       m /= tot;
       let v = 0;
-      for (let q = base; q < base + n; q++) {
-        const u = den > 0 ? Math.abs(sW[q]) : 1;
-        const e = sVal[q] - mean[sStu[q]] - m;
+      for (let q = from; q < to; q += SLOT) {
+        const u = den > 0 ? Math.abs(slots[q]) : 1;
+        const e = slots[q + 1] - m;
         v += u * e * e;
       }
       const spread = Math.sqrt(v / tot);
@@ -526,98 +778,142 @@ function predictFromSlots(
 }
 
 /**
- * Heap selection over one course column: the heap's root is the worst kept by the order
- * (w descending, key rank ascending). Monomorphic and closure-free because it is the hot loop.
+ * Top-k of one course column, written best first into the slots from `base`. The order is
+ * (key asc, w desc, key rank asc), the same as (w desc, rank asc) because keys are monotone in
+ * w; w and rank are read only when keys are equal. Entries before the bar go to a buffer of
+ * about 2k (column positions and keys); when it fills, a selection keeps the best k and the
+ * bar becomes the worst of them, so most entries cost one small read and one comparison.
+ * `startKey` is NO_KEY when candidates have bucket keys (others NO_KEY), 0 when all keys are 0.
+ * Returns the neighbourhood size.
  */
 function scanTopK(
   colStudent: Int32Array,
-  colValue: Float64Array,
+  colDev: Float64Array,
   from: number,
   to: number,
   a: number,
   minSim: number,
   w: Float64Array,
+  key: Uint16Array,
+  startKey: number,
   rank: Int32Array,
   k: number,
-  hIdx: Int32Array,
-  hW: Float64Array,
-  hVal: Float64Array,
-  outIdx: Int32Array,
-  outW: Float64Array,
-  outVal: Float64Array,
+  bq: Int32Array,
+  bk: Int32Array,
+  slots: Float64Array,
   base: number,
 ): number {
+  if (k === 0) return 0;
+  const size = bq.length;
   let n = 0;
+  // The bar (tk, tw, tr); at the start anything keyed passes, and at startKey w > minSim.
+  let tk = startKey;
+  let tw = minSim;
+  let tr = -1;
   for (let q = from; q < to; q++) {
     const i = colStudent[q];
-    const wi = w[i];
-    if (!(wi > minSim) || i === a) continue;
-    if (n < k) {
-      let c = n++;
-      const ri = rank[i];
-      while (c > 0) {
-        const p = (c - 1) >> 1;
-        const wp = hW[p];
-        // Move up while the new entry is worse than its parent.
-        if (!(wi < wp || (wi === wp && ri > rank[hIdx[p]]))) break;
-        hIdx[c] = hIdx[p];
-        hW[c] = wp;
-        hVal[c] = hVal[p];
-        c = p;
-      }
-      hIdx[c] = i;
-      hW[c] = wi;
-      hVal[c] = colValue[q];
-    } else {
-      const w0 = hW[0];
-      if (wi < w0 || (wi === w0 && rank[i] > rank[hIdx[0]])) continue;
-      siftDown(hIdx, hW, hVal, n, i, wi, colValue[q], rank);
+    const ki = key[i];
+    if (ki > tk) continue;
+    if (ki === tk) {
+      const wi = w[i];
+      if (wi < tw || (wi === tw && !(rank[i] < tr))) continue;
+    }
+    if (i === a) continue;
+    bq[n] = q;
+    bk[n] = ki;
+    if (++n === size) {
+      selectBest(bq, bk, n - 1, k, colStudent, w, rank);
+      n = k;
+      let m = 0;
+      for (let x = 1; x < k; x++) if (after(bq[x], bk[x], bq[m], bk[m], colStudent, w, rank)) m = x;
+      tk = bk[m];
+      tw = w[colStudent[bq[m]]];
+      tr = rank[colStudent[bq[m]]];
     }
   }
-  // Pop the worst to the back: the slots end up best first.
-  for (let m = n - 1; m >= 0; m--) {
-    outIdx[base + m] = hIdx[0];
-    outW[base + m] = hW[0];
-    outVal[base + m] = hVal[0];
-    if (m > 0) siftDown(hIdx, hW, hVal, m, hIdx[m], hW[m], hVal[m], rank);
+  if (n > k) {
+    selectBest(bq, bk, n - 1, k, colStudent, w, rank);
+    n = k;
+  }
+  // Best first: insertion sort of at most k entries.
+  for (let p = 1; p < n; p++) {
+    const q0 = bq[p];
+    const k0 = bk[p];
+    let x = p - 1;
+    for (; x >= 0 && after(bq[x], bk[x], q0, k0, colStudent, w, rank); x--) {
+      bq[x + 1] = bq[x];
+      bk[x + 1] = bk[x];
+    }
+    bq[x + 1] = q0;
+    bk[x + 1] = k0;
+  }
+  for (let m = 0; m < n; m++) {
+    const q = bq[m];
+    const r = (base + m) * SLOT;
+    slots[r] = w[colStudent[q]];
+    slots[r + 1] = colDev[q];
   }
   return n;
 }
 
-/** Put (i, wi, v) at the root of a heap of size n and restore the heap. */
-function siftDown(
-  hIdx: Int32Array,
-  hW: Float64Array,
-  hVal: Float64Array,
-  n: number,
-  i: number,
-  wi: number,
-  v: number,
+/** Whether column entry q1 (key k1) comes after q2 (key k2) in (key asc, w desc, rank asc). */
+function after(
+  q1: number,
+  k1: number,
+  q2: number,
+  k2: number,
+  colStudent: Int32Array,
+  w: Float64Array,
+  rank: Int32Array,
+): boolean {
+  if (k1 !== k2) return k1 > k2;
+  const i1 = colStudent[q1];
+  const i2 = colStudent[q2];
+  const w1 = w[i1];
+  const w2 = w[i2];
+  return w1 < w2 || (w1 === w2 && rank[i1] > rank[i2]);
+}
+
+/**
+ * Quickselect on buffer entries [0..hi]: afterwards the best k of them are at 0..k-1, in no
+ * particular order.
+ */
+function selectBest(
+  bq: Int32Array,
+  bk: Int32Array,
+  hi: number,
+  k: number,
+  colStudent: Int32Array,
+  w: Float64Array,
   rank: Int32Array,
 ): void {
-  const ri = rank[i];
-  let c = 0;
-  for (;;) {
-    const l = 2 * c + 1;
-    if (l >= n) break;
-    const r = l + 1;
-    let m = l;
-    if (r < n) {
-      const wr = hW[r];
-      const wl = hW[l];
-      if (wr < wl || (wr === wl && rank[hIdx[r]] > rank[hIdx[l]])) m = r;
+  let lo = 0;
+  while (hi > lo) {
+    const mid = (lo + hi) >> 1;
+    const pq = bq[mid];
+    const pk = bk[mid];
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      // Skip entries better than the pivot from the left, worse from the right.
+      while (after(pq, pk, bq[i], bk[i], colStudent, w, rank)) i++;
+      while (after(bq[j], bk[j], pq, pk, colStudent, w, rank)) j--;
+      if (i <= j) {
+        const tq = bq[i];
+        bq[i] = bq[j];
+        bq[j] = tq;
+        const tk = bk[i];
+        bk[i] = bk[j];
+        bk[j] = tk;
+        i++;
+        j--;
+      }
     }
-    const wm = hW[m];
-    // Stop when the child is not worse than the entry.
-    if (!(wm < wi || (wm === wi && rank[hIdx[m]] > ri))) break;
-    hIdx[c] = hIdx[m];
-    hW[c] = wm;
-    hVal[c] = hVal[m];
-    c = m;
+    // Now [lo..j] are at least as good as the pivot, [i..hi] at most as good.
+    if (k - 1 <= j) hi = j;
+    else if (k - 1 >= i) lo = i;
+    else return;
   }
-  hIdx[c] = i;
-  hW[c] = wi;
-  hVal[c] = v;
 }
 
 /** Courses where student a has no value in the signal, in course index order. */

@@ -1,4 +1,4 @@
-import { Model, similarityView, SimilarityView } from './model';
+import { DenseBlock, Model, similarityView, SimilarityView } from './model';
 import { Settings } from './types';
 
 /**
@@ -15,11 +15,18 @@ export class SimilarityWorkspace {
   zeroCourses = 0;
   student = -1;
   view: SimilarityView | null = null;
+  /**
+   * True when the last compute took the dense route: then w is set for every student and
+   * touched is not filled (every student counts as touched).
+   */
+  dense = false;
   private readonly num: Float64Array;
   private readonly da: Float64Array;
   private readonly di: Float64Array;
   private readonly seen: Int32Array;
   private epoch = 0;
+  private runSlot = new Int32Array(8);
+  private runCoef = new Float64Array(8);
 
   constructor(readonly model: Model) {
     const S = model.studentKeys.length;
@@ -42,7 +49,9 @@ export class SimilarityWorkspace {
   /** Similarities of student a (index, or -1 for a student without records) to everyone. */
   compute(a: number, settings: Settings, needOverlap: boolean): void {
     const { w, touched } = this;
-    for (let t = 0; t < this.nTouched; t++) w[touched[t]] = 0;
+    if (this.dense) w.fill(0);
+    else for (let t = 0; t < this.nTouched; t++) w[touched[t]] = 0;
+    this.dense = false;
     this.nTouched = 0;
     this.zeroCourses = 0;
     this.student = a;
@@ -57,6 +66,37 @@ export class SimilarityWorkspace {
     if (settings.significance > 0) needOverlap = true;
     const { data, f, rowX, colX, norm } = view;
     const pearson = settings.similarity === 'pearson';
+    if (
+      !pearson &&
+      !needOverlap &&
+      hasDenseTerm(data.rowPtr, data.rowCourse, f, rowX, view.dense, a)
+    ) {
+      this.dense = true;
+      const S = this.model.studentKeys.length;
+      if (view.dense.width > this.runSlot.length) {
+        this.runSlot = new Int32Array(view.dense.width);
+        this.runCoef = new Float64Array(view.dense.width);
+      }
+      this.zeroCourses = accumulateCosineDense(
+        data.rowPtr,
+        data.rowCourse,
+        data.colPtr,
+        data.colStudent,
+        f,
+        rowX,
+        colX,
+        a,
+        view.dense.slot,
+        view.dense.width,
+        view.dense.x,
+        this.runSlot,
+        this.runCoef,
+        this.num,
+        S,
+      );
+      finishDense(a, S, this.num, norm, this.w);
+      return;
+    }
     const acc = pearson ? accumulatePearson : accumulateCosine;
     const packed = acc(
       data.rowPtr,
@@ -98,6 +138,166 @@ export class SimilarityWorkspace {
 }
 
 // The hot loops live in plain functions over typed arrays so the optimiser sees one shape.
+
+/** Whether a has a course kept dense that adds a term (f_j and x_aj both non-zero). */
+function hasDenseTerm(
+  rowPtr: Int32Array,
+  rowCourse: Int32Array,
+  f: Float64Array,
+  rowX: Float64Array,
+  dense: DenseBlock,
+  a: number,
+): boolean {
+  if (dense.width === 0) return false;
+  for (let p = rowPtr[a]; p < rowPtr[a + 1]; p++) {
+    const j = rowCourse[p];
+    if (dense.slot[j] >= 0 && f[j] !== 0 && rowX[p] !== 0) return true;
+  }
+  return false;
+}
+
+/**
+ * Cosine numerators for every student. Terms are added in a's course order, exactly as the
+ * sparse route adds them (adding a zero term for a course i lacks leaves the sum unchanged),
+ * so both routes give the same bits. Runs of consecutive dense courses share one pass.
+ */
+function accumulateCosineDense(
+  rowPtr: Int32Array,
+  rowCourse: Int32Array,
+  colPtr: Int32Array,
+  colStudent: Int32Array,
+  f: Float64Array,
+  rowX: Float64Array,
+  colX: Float64Array,
+  a: number,
+  slot: Int32Array,
+  width: number,
+  dx: Float64Array,
+  runSlot: Int32Array,
+  runCoef: Float64Array,
+  num: Float64Array,
+  S: number,
+): number {
+  num.fill(0, 0, S);
+  let zero = 0;
+  const e = rowPtr[a + 1];
+  let p = rowPtr[a];
+  while (p < e) {
+    const j = rowCourse[p];
+    const fj = f[j];
+    if (fj === 0) {
+      zero++;
+      p++;
+      continue;
+    }
+    const xa = rowX[p];
+    if (xa === 0) {
+      p++;
+      continue;
+    }
+    if (slot[j] < 0) {
+      const c = fj * fj * xa;
+      const end = colPtr[j + 1];
+      for (let q = colPtr[j]; q < end; q++) num[colStudent[q]] += c * colX[q];
+      p++;
+      continue;
+    }
+    // Gather the run of dense courses that starts here (skipping courses that add nothing).
+    let m = 0;
+    while (p < e) {
+      const jj = rowCourse[p];
+      const ff = f[jj];
+      if (ff === 0) {
+        zero++;
+        p++;
+        continue;
+      }
+      const xx = rowX[p];
+      if (xx === 0) {
+        p++;
+        continue;
+      }
+      if (slot[jj] < 0) break;
+      runSlot[m] = slot[jj];
+      runCoef[m] = ff * ff * xx;
+      m++;
+      p++;
+    }
+    denseRun(num, dx, width, S, runSlot, runCoef, m);
+  }
+  return zero;
+}
+
+function denseRun(
+  num: Float64Array,
+  dx: Float64Array,
+  width: number,
+  S: number,
+  runSlot: Int32Array,
+  runCoef: Float64Array,
+  m: number,
+): void {
+  if (m === 0) return;
+  if (m === width && width <= 8) {
+    // The usual case (a has every dense course): slots in order, unrolled.
+    let ordered = true;
+    for (let u = 0; u < m; u++) if (runSlot[u] !== u) ordered = false;
+    if (ordered) return denseRunAll(num, dx, width, S, runCoef);
+  }
+  for (let i = 0, b = 0; i < S; i++, b += width) {
+    let s = num[i];
+    for (let u = 0; u < m; u++) s += runCoef[u] * dx[b + runSlot[u]];
+    num[i] = s;
+  }
+}
+
+function denseRunAll(
+  num: Float64Array,
+  dx: Float64Array,
+  width: number,
+  S: number,
+  c: Float64Array,
+): void {
+  const c0 = c[0];
+  const c1 = c[1];
+  const c2 = c[2];
+  const c3 = c[3];
+  const c4 = c[4];
+  const c5 = c[5];
+  const c6 = c[6];
+  const c7 = c[7];
+  for (let i = 0, b = 0; i < S; i++, b += width) {
+    let s = num[i] + c0 * dx[b];
+    if (width > 1) s += c1 * dx[b + 1];
+    if (width > 2) s += c2 * dx[b + 2];
+    if (width > 3) s += c3 * dx[b + 3];
+    if (width > 4) s += c4 * dx[b + 4];
+    if (width > 5) s += c5 * dx[b + 5];
+    if (width > 6) s += c6 * dx[b + 6];
+    if (width > 7) s += c7 * dx[b + 7];
+    num[i] = s;
+  }
+}
+
+/** w for every student from the numerators (cosine, no significance weighting). */
+function finishDense(
+  a: number,
+  S: number,
+  num: Float64Array,
+  norm: Float64Array,
+  w: Float64Array,
+): void {
+  const na = norm[a];
+  for (let i = 0; i < S; i++) {
+    let s = 0;
+    const den = na * norm[i];
+    if (den > 0) s = num[i] / den;
+    if (s > 1) s = 1;
+    else if (s < -1) s = -1;
+    w[i] = s;
+  }
+  w[a] = 0;
+}
 
 function accumulateCosine(
   rowPtr: Int32Array,

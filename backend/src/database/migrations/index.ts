@@ -2,6 +2,9 @@ import { InitialSchema1796184580000 } from './1796184580000-InitialSchema';
 import { Imports1796184590000 } from './1796184590000-Imports';
 import { ModelSettings1796184700000 } from './1796184700000-ModelSettings';
 import { Advising1796184710000 } from './1796184710000-Advising';
+import { AccountSecurity1796184850000 } from './1796184850000-AccountSecurity';
+import { ModelEvaluations1796184937000 } from './1796184937000-ModelEvaluations';
+import { DemandOutlook1796185100000 } from './1796185100000-DemandOutlook';
 
 /** Every migration, oldest first. A new migration is added here as well as to this folder. */
 export const MIGRATIONS = [
@@ -9,4 +12,7 @@ export const MIGRATIONS = [
   Imports1796184590000,
   ModelSettings1796184700000,
   Advising1796184710000,
+  AccountSecurity1796184850000,
+  ModelEvaluations1796184937000,
+  DemandOutlook1796185100000,
 ];

@@ -60,7 +60,10 @@ export class UpdateModelSettingsDto implements UpdateModelSettingsRequest {
   minNeighbours: number;
 
   @ApiProperty({ minimum: LIMITS.minSimilarity.min, maximum: LIMITS.minSimilarity.max, example: 0 })
-  @IsNumber({ allowNaN: false, allowInfinity: false }, { message: 'minSimilarity must be a number.' })
+  @IsNumber(
+    { allowNaN: false, allowInfinity: false },
+    { message: 'minSimilarity must be a number.' },
+  )
   @Min(LIMITS.minSimilarity.min, { message: 'minSimilarity must be between -1 and 1.' })
   @Max(LIMITS.minSimilarity.max, { message: 'minSimilarity must be between -1 and 1.' })
   minSimilarity: number;

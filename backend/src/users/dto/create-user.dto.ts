@@ -10,10 +10,11 @@ import {
   MaxLength,
   MinLength,
 } from 'class-validator';
+import { IsAcceptablePassword, PASSWORD_TOO_SHORT } from '../../auth/password-policy';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 
-export const PASSWORD_TOO_SHORT = `Password must be at least ${PASSWORD_MIN_LENGTH} characters.`;
+export { PASSWORD_TOO_SHORT };
 export const DEPARTMENT_FORM = 'Department must be a short upper-case code such as CMP.';
 
 export class CreateUserDto {
@@ -44,11 +45,10 @@ export class CreateUserDto {
   @ApiPropertyOptional({
     minLength: PASSWORD_MIN_LENGTH,
     description:
-      'With a password the account is ready at once; without one it waits for an invitation.',
+      'With a password the account is ready at once; without one an invitation e-mail goes out. Common passwords are refused.',
   })
   @IsOptional()
-  @IsString()
-  @MinLength(PASSWORD_MIN_LENGTH, { message: PASSWORD_TOO_SHORT })
-  @MaxLength(200)
+  @IsString({ message: 'Password must be text.' })
+  @IsAcceptablePassword()
   password?: string;
 }

@@ -4,6 +4,8 @@ import { ROLES, type UserSummary } from '@kinpath/contracts';
 export interface Session {
   token: string;
   user: UserSummary;
+  /** When the access token expires (ISO 8601); renewed before then while the user is active. */
+  expiresAt?: string;
 }
 
 // sessionStorage, not localStorage: a session ends with the tab, which suits shared office desks.

@@ -1,4 +1,5 @@
-import { Navigate, useLocation, type Location } from 'react-router';
+import { Navigate, Link as RouterLink, useLocation, type Location } from 'react-router';
+import Link from '@mui/material/Link';
 import Box from '@mui/material/Box';
 import Paper from '@mui/material/Paper';
 import Typography from '@mui/material/Typography';
@@ -65,6 +66,13 @@ export function SignInPage() {
             Elective advising, term data and demand outlook for the registrar&apos;s office.
           </Typography>
           <SignInForm />
+          <Link
+            component={RouterLink}
+            to="/forgot-password"
+            sx={{ display: 'inline-block', mt: 2 }}
+          >
+            Forgot your password?
+          </Link>
         </Paper>
       </Box>
     </Box>

@@ -1,37 +1,314 @@
+import { useId, useMemo, useState } from 'react';
+import Alert from '@mui/material/Alert';
+import Box from '@mui/material/Box';
+import Button from '@mui/material/Button';
+import LinearProgress from '@mui/material/LinearProgress';
+import MenuItem from '@mui/material/MenuItem';
 import Stack from '@mui/material/Stack';
+import Tab from '@mui/material/Tab';
+import Tabs from '@mui/material/Tabs';
+import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
+import Download from '@mui/icons-material/Download';
+import type { ForecastAbout, ScoringRunSummary } from '@kinpath/contracts';
+import { DEFAULT_AT_RISK_BELOW, FORECAST_FLAG_LABELS, FORECAST_FLAGS } from '@kinpath/contracts';
 import { EmptyState } from '../../../components/EmptyState';
+import { EstimateCautions } from '../../../components/EstimateCautions';
 import { PageHeader } from '../../../components/PageHeader';
+import { apiMessage } from '../../../lib/api-client';
 import { useAuth } from '../../auth/AuthProvider';
 import { TermDataStatus } from '../../terms/components/TermDataStatus';
+import {
+  downloadOutlookCsv,
+  useBacktest,
+  useForecasts,
+  useOutlookAbout,
+  useScoringRuns,
+} from '../api/outlook';
+import { BacktestSection } from '../components/BacktestSection';
+import { FLAG_EXPLANATIONS, FlagLabel } from '../components/FlagLabel';
+import { OutlookChart } from '../components/OutlookChart';
+import { OutlookTable } from '../components/OutlookTable';
+
+function runProgress(run: ScoringRunSummary): string {
+  return `${run.chunksDone} of ${run.chunksTotal || '…'} chunks scored`;
+}
+
+/** What to say when there is nothing to show yet; null when the outlook can be shown. */
+export function OutlookEmpty({ about }: { about: ForecastAbout }) {
+  if (!about.term) {
+    return (
+      <EmptyState heading="No outlook yet">
+        <Typography sx={{ mb: 1.5 }}>
+          The outlook needs the catalogue, next term&apos;s offerings and past term data, imported
+          by the registrar&apos;s office.
+        </Typography>
+        <TermDataStatus whenEmpty="No term data has been imported yet, so there is nothing to forecast from. The registrar's office imports it." />
+      </EmptyState>
+    );
+  }
+  if (about.offerings === 0) {
+    return (
+      <EmptyState heading={`No offerings imported for ${about.term}`}>
+        <Typography sx={{ mb: 1.5 }}>
+          The outlook compares expected demand with the seats of each elective offered in{' '}
+          {about.term}. The registrar&apos;s office must first import the offerings file for{' '}
+          {about.term} (term, course code, sections and capacity for each elective), with the
+          catalogue and past term data already in place.
+        </Typography>
+        <Typography>Once it is imported, the outlook is computed within minutes.</Typography>
+      </EmptyState>
+    );
+  }
+  return (
+    <EmptyState heading={`The outlook for ${about.term} is being computed`}>
+      <Typography sx={{ mb: 1.5 }}>
+        Every active student is being scored against the electives offered in {about.term}; the
+        table appears here when that is done.
+      </Typography>
+      {about.pending ? (
+        <>
+          <LinearProgress
+            variant="determinate"
+            value={Math.round(about.pending.progress * 100)}
+            aria-label="Scoring progress"
+          />
+          <Typography variant="body2" sx={{ mt: 1 }}>
+            {runProgress(about.pending)}.
+          </Typography>
+        </>
+      ) : null}
+    </EmptyState>
+  );
+}
+
+function ScoringStatus({ runs }: { runs: ScoringRunSummary[] }) {
+  const latest = runs[0];
+  if (!latest) return null;
+  const words: Record<ScoringRunSummary['status'], string> = {
+    queued: 'queued',
+    scoring: 'scoring',
+    finalising: 'finishing',
+    done: 'done',
+    failed: 'failed',
+    superseded: 'replaced by a newer run',
+  };
+  return (
+    <Typography variant="body2" sx={{ color: 'text.secondary' }}>
+      Latest cohort scoring run for {latest.term} ({latest.reason}, settings version{' '}
+      {latest.settingsVersion}): {words[latest.status]}, {runProgress(latest)}
+      {latest.students !== null ? `, ${latest.students} active students` : ''}
+      {latest.error ? ` — ${latest.error}` : ''}.
+    </Typography>
+  );
+}
 
 export function OutlookPage() {
   const { user } = useAuth();
-  const department = user?.role === 'department_head' ? user.department : null;
+  const isHead = user?.role === 'department_head';
+  const ownDepartment = isHead ? (user?.department ?? undefined) : undefined;
+  const about = useOutlookAbout();
+  const ready = !!about.data?.run;
+  const runId = about.data?.run?.id ?? null;
+  const [thresholdText, setThresholdText] = useState(String(DEFAULT_AT_RISK_BELOW));
+  const threshold = Number(thresholdText);
+  const thresholdValid =
+    thresholdText.trim() !== '' && Number.isFinite(threshold) && threshold >= 0;
+  const atRiskBelow = thresholdValid ? threshold : DEFAULT_AT_RISK_BELOW;
+  const [department, setDepartment] = useState('');
+  const [tab, setTab] = useState<'outlook' | 'backtest'>('outlook');
+  const [exportError, setExportError] = useState<string | null>(null);
+  const forecasts = useForecasts({ department: ownDepartment, atRiskBelow }, ready, runId);
+  const backtest = useBacktest(ownDepartment, ready && tab === 'backtest', runId);
+  const runs = useScoringRuns(!isHead);
+  const ids = { threshold: useId(), chart: useId(), outlookTab: useId(), backtestTab: useId() };
+
+  const allRows = useMemo(() => forecasts.data ?? [], [forecasts.data]);
+  const departments = useMemo(
+    () => [...new Set(allRows.map((r) => r.department))].sort(),
+    [allRows],
+  );
+  const rows = department ? allRows.filter((r) => r.department === department) : allRows;
+  const backtestData = backtest.data
+    ? department && !isHead
+      ? {
+          ...backtest.data,
+          courses: backtest.data.courses.filter((c) => c.department === department),
+        }
+      : backtest.data
+    : null;
+  const scope = ownDepartment ?? (department || undefined);
+  const term = about.data?.term ?? null;
+
+  const exportCsv = async () => {
+    setExportError(null);
+    try {
+      await downloadOutlookCsv({ department: scope, atRiskBelow }, term);
+    } catch (error) {
+      setExportError(apiMessage(error) ?? 'The CSV could not be exported; try again.');
+    }
+  };
+
   return (
     <>
       <PageHeader
         title="Demand outlook"
         lead={
-          department
-            ? `Expected demand for the electives of department ${department} next term, against the seats offered.`
-            : 'Expected demand for each department’s electives next term, against the seats offered.'
+          ownDepartment
+            ? `Expected demand for the electives of department ${ownDepartment}${term ? ` in ${term}` : ' next term'}, against the seats offered.`
+            : `Expected demand for each department’s electives${term ? ` in ${term}` : ' next term'}, against the seats offered.`
+        }
+        actions={
+          ready ? (
+            <Button variant="outlined" startIcon={<Download />} onClick={() => void exportCsv()}>
+              Export CSV
+            </Button>
+          ) : undefined
         }
       />
       <Stack spacing={3}>
-        <EmptyState heading="No outlook yet">
-          <Typography sx={{ mb: 1.5 }}>
-            For each elective, the outlook will show the expected enrolment with an interval next to
-            the seats offered, flag electives likely to be over- or under-subscribed, compare the
-            forecast with what really happened in a past term (the backtest), and export the table
-            as CSV for planning.
-          </Typography>
-          <Typography sx={{ mb: 1.5 }}>
-            It needs the catalogue, next term&apos;s offerings and past term data, imported by the
-            registrar&apos;s office.
-          </Typography>
-          <TermDataStatus whenEmpty="No term data has been imported yet, so there is nothing to forecast from. The registrar's office imports it." />
-        </EmptyState>
+        {exportError ? <Alert severity="error">{exportError}</Alert> : null}
+        {about.isError ? (
+          <Alert severity="error">
+            {apiMessage(about.error) ?? 'The outlook could not be loaded; try again.'}
+          </Alert>
+        ) : null}
+        {about.isPending ? <LinearProgress aria-label="Loading the outlook" /> : null}
+        {about.data && !ready ? <OutlookEmpty about={about.data} /> : null}
+        {about.data && ready ? (
+          <>
+            {about.data.pending ? (
+              <Alert severity="info">
+                A newer outlook is being computed after a change to the term data or the model
+                settings ({runProgress(about.data.pending)}); the figures below stay until it is
+                done.
+              </Alert>
+            ) : null}
+            <Box sx={{ display: 'flex', gap: 2, flexWrap: 'wrap', alignItems: 'flex-start' }}>
+              <TextField
+                id={ids.threshold}
+                label="At risk below (students)"
+                type="number"
+                size="small"
+                value={thresholdText}
+                onChange={(e) => setThresholdText(e.target.value)}
+                error={!thresholdValid}
+                helperText={
+                  thresholdValid
+                    ? 'Electives expected to draw fewer students are flagged at risk.'
+                    : 'Enter a number of students, 0 or more.'
+                }
+                slotProps={{ htmlInput: { min: 0, step: 1 } }}
+                sx={{ width: 260 }}
+              />
+              {!isHead ? (
+                <TextField
+                  select
+                  label="Department"
+                  size="small"
+                  value={department}
+                  onChange={(e) => setDepartment(e.target.value)}
+                  sx={{ minWidth: 200 }}
+                >
+                  <MenuItem value="">All departments</MenuItem>
+                  {departments.map((d) => (
+                    <MenuItem key={d} value={d}>
+                      {d}
+                    </MenuItem>
+                  ))}
+                </TextField>
+              ) : null}
+            </Box>
+            {about.data.betaMethod ? (
+              <Typography variant="body2" sx={{ maxWidth: '78ch' }}>
+                <strong>How the choice model was tuned:</strong> {about.data.betaMethod}
+              </Typography>
+            ) : null}
+            <Tabs
+              value={tab}
+              onChange={(_e, value: 'outlook' | 'backtest') => setTab(value)}
+              aria-label="Outlook and backtest"
+            >
+              <Tab
+                value="outlook"
+                label={`Outlook for ${term ?? ''}`}
+                id={ids.outlookTab}
+                aria-controls={`${ids.outlookTab}-panel`}
+              />
+              <Tab
+                value="backtest"
+                label="Backtest"
+                id={ids.backtestTab}
+                aria-controls={`${ids.backtestTab}-panel`}
+              />
+            </Tabs>
+            <Box
+              role="tabpanel"
+              id={`${ids.outlookTab}-panel`}
+              aria-labelledby={ids.outlookTab}
+              hidden={tab !== 'outlook'}
+            >
+              {tab === 'outlook' ? (
+                <Stack spacing={2}>
+                  <Box
+                    component="ul"
+                    sx={{ m: 0, pl: 0, listStyle: 'none', display: 'grid', gap: 0.5 }}
+                  >
+                    {FORECAST_FLAGS.map((f) => (
+                      <li key={f}>
+                        <FlagLabel flag={f} />
+                        <Typography component="span" variant="body2" sx={{ ml: 1 }}>
+                          {FLAG_EXPLANATIONS[f]}
+                        </Typography>
+                      </li>
+                    ))}
+                  </Box>
+                  {forecasts.isError ? (
+                    <Alert severity="error">
+                      {apiMessage(forecasts.error) ?? 'The outlook could not be loaded.'}
+                    </Alert>
+                  ) : null}
+                  {forecasts.isPending ? <LinearProgress aria-label="Loading the outlook" /> : null}
+                  {forecasts.data ? (
+                    <>
+                      <OutlookTable
+                        rows={rows}
+                        caption={`${rows.length} electives offered in ${term ?? ''}${scope ? `, department ${scope}` : ''}: ${FORECAST_FLAGS.map((f) => `${rows.filter((r) => r.flag === f).length} ${FORECAST_FLAG_LABELS[f].toLowerCase()}`).join(', ')}`}
+                      />
+                      <OutlookChart rows={rows} id={ids.chart} />
+                    </>
+                  ) : null}
+                </Stack>
+              ) : null}
+            </Box>
+            <Box
+              role="tabpanel"
+              id={`${ids.backtestTab}-panel`}
+              aria-labelledby={ids.backtestTab}
+              hidden={tab !== 'backtest'}
+            >
+              {tab === 'backtest' ? (
+                <>
+                  {backtest.isPending ? <LinearProgress aria-label="Loading the backtest" /> : null}
+                  {backtest.isError ? (
+                    <Alert severity="error">
+                      {apiMessage(backtest.error) ?? 'The backtest could not be loaded.'}
+                    </Alert>
+                  ) : null}
+                  {backtestData && backtestData.term ? (
+                    <BacktestSection backtest={backtestData} />
+                  ) : backtestData ? (
+                    <Typography>
+                      There is no completed term before {term} to backtest against yet.
+                    </Typography>
+                  ) : null}
+                </>
+              ) : null}
+            </Box>
+            {!isHead && runs.data ? <ScoringStatus runs={runs.data} /> : null}
+          </>
+        ) : null}
+        <EstimateCautions />
       </Stack>
     </>
   );

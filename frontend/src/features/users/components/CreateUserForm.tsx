@@ -61,7 +61,8 @@ export function CreateUserForm() {
       email: values.email.trim(),
       displayName: values.displayName.trim(),
       role: values.role,
-      password: values.password,
+      // Without a password the server sends an invitation e-mail instead.
+      ...(values.password ? { password: values.password } : {}),
       ...(values.role === 'department_head'
         ? { department: values.department.trim().toUpperCase() }
         : {}),
@@ -157,7 +158,6 @@ export function CreateUserForm() {
           autoComplete="new-password"
           {...fieldProps(
             register('password', {
-              required: 'Enter a first password for the account.',
               minLength: {
                 value: PASSWORD_MIN_LENGTH,
                 message: `Use at least ${PASSWORD_MIN_LENGTH} characters.`,
@@ -165,9 +165,13 @@ export function CreateUserForm() {
             }),
             errors.password?.message,
           )}
+          slotProps={{
+            htmlInput: { 'aria-required': false },
+            formHelperText: errors.password?.message ? { role: 'alert' } : undefined,
+          }}
           helperText={
             errors.password?.message ??
-            `At least ${PASSWORD_MIN_LENGTH} characters. The account can sign in at once; pass the password on safely.`
+            `Optional: leave it empty to send an invitation e-mail (the link works for 72 hours). With a password of at least ${PASSWORD_MIN_LENGTH} characters the account can sign in at once.`
           }
         />
         <Button

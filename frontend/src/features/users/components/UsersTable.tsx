@@ -17,9 +17,11 @@ import TableContainer from '@mui/material/TableContainer';
 import TableHead from '@mui/material/TableHead';
 import TableRow from '@mui/material/TableRow';
 import TableSortLabel from '@mui/material/TableSortLabel';
+import Alert from '@mui/material/Alert';
 import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
 import { ROLE_LABELS, type UserAccount } from '@kinpath/contracts';
+import { AccountActions } from './AccountActions';
 
 const column = createColumnHelper<UserAccount>();
 
@@ -57,11 +59,30 @@ const columns = [
 export function UsersTable({ users, captionId }: { users: UserAccount[]; captionId: string }) {
   const [sorting, setSorting] = useState<SortingState>([{ id: 'displayName', desc: false }]);
   const [filter, setFilter] = useState('');
+  const [outcome, setOutcome] = useState<{ message: string; error: boolean } | null>(null);
   const data = useMemo(() => users, [users]);
+  const allColumns = useMemo(
+    () => [
+      ...columns,
+      column.display({
+        id: 'actions',
+        header: () => <span>Actions</span>,
+        enableSorting: false,
+        cell: (info) => (
+          <AccountActions
+            user={info.row.original}
+            onDone={(message, error = false) => setOutcome({ message, error })}
+          />
+        ),
+        meta: { numeric: true },
+      }),
+    ],
+    [],
+  );
 
   const table = useReactTable({
     data,
-    columns,
+    columns: allColumns,
     state: { sorting, globalFilter: filter },
     onSortingChange: setSorting,
     onGlobalFilterChange: setFilter,
@@ -87,6 +108,16 @@ export function UsersTable({ users, captionId }: { users: UserAccount[]; caption
             : `${rows.length} of ${users.length} accounts`}
         </Typography>
       </Box>
+      {outcome ? (
+        <Alert
+          severity={outcome.error ? 'error' : 'success'}
+          role={outcome.error ? 'alert' : 'status'}
+          onClose={() => setOutcome(null)}
+          sx={{ mb: 1.5 }}
+        >
+          {outcome.message}
+        </Alert>
+      ) : null}
       <TableContainer component={Paper} variant="outlined">
         <Table aria-labelledby={captionId}>
           <TableHead>
@@ -100,16 +131,26 @@ export function UsersTable({ users, captionId }: { users: UserAccount[]; caption
                       key={header.id}
                       align={numeric ? 'right' : 'left'}
                       aria-sort={
-                        sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : 'none'
+                        !header.column.getCanSort()
+                          ? undefined
+                          : sorted === 'asc'
+                            ? 'ascending'
+                            : sorted === 'desc'
+                              ? 'descending'
+                              : 'none'
                       }
                     >
-                      <TableSortLabel
-                        active={sorted !== false}
-                        direction={sorted === 'desc' ? 'desc' : 'asc'}
-                        onClick={header.column.getToggleSortingHandler()}
-                      >
-                        {flexRender(header.column.columnDef.header, header.getContext())}
-                      </TableSortLabel>
+                      {header.column.getCanSort() ? (
+                        <TableSortLabel
+                          active={sorted !== false}
+                          direction={sorted === 'desc' ? 'desc' : 'asc'}
+                          onClick={header.column.getToggleSortingHandler()}
+                        >
+                          {flexRender(header.column.columnDef.header, header.getContext())}
+                        </TableSortLabel>
+                      ) : (
+                        flexRender(header.column.columnDef.header, header.getContext())
+                      )}
                     </TableCell>
                   );
                 })}
@@ -131,7 +172,7 @@ export function UsersTable({ users, captionId }: { users: UserAccount[]; caption
             ))}
             {rows.length === 0 ? (
               <TableRow>
-                <TableCell colSpan={columns.length}>
+                <TableCell colSpan={allColumns.length}>
                   {users.length === 0 ? 'No accounts yet.' : 'No account matches the filter.'}
                 </TableCell>
               </TableRow>

@@ -1,0 +1,60 @@
+/**
+ * A scoring worker process: consumes the demand outlook's scoring jobs and nothing else.
+ *
+ *   node backend/dist/forecasts/scoring-worker.js     (the server's KINPATH_DB_* settings)
+ *
+ * Start more of them, here or on other machines sharing the database, to finish a run sooner.
+ * KINPATH_SCORING_THREADS sets the engine's worker threads per process (default 1).
+ */
+import { hostname } from 'node:os';
+import { Pool } from 'pg';
+import { loadDatabaseConfig } from '../config/config';
+import { ScoringQueue } from './scoring-queue';
+import { ScoringRunner } from './scoring-runner';
+
+async function main(): Promise<void> {
+  const db = loadDatabaseConfig();
+  const quiet =
+    process.env.KINPATH_LOG_LEVEL === 'warn' || process.env.KINPATH_LOG_LEVEL === 'error';
+  const log = (message: string) => {
+    if (!quiet) process.stdout.write(`kinpath scoring worker ${process.pid}: ${message}\n`);
+  };
+  const pool = new Pool({
+    host: db.host,
+    port: db.port,
+    database: db.name,
+    user: db.user,
+    password: db.password,
+    max: 3,
+    application_name: 'kinpath-scoring-worker',
+  });
+  // An idle connection dropped by the server is not a reason to stop.
+  pool.on('error', (error) => log(`database: ${error.message}`));
+  const queue = new ScoringQueue(db, (error) => log(`job queue: ${error.message}`));
+  await queue.start();
+  const runner = new ScoringRunner(pool, (jobs) => queue.send(jobs), {
+    threads: Math.max(0, Number(process.env.KINPATH_SCORING_THREADS ?? 1) || 0),
+    worker: `${hostname()}:${process.pid}`,
+    log,
+  });
+  await queue.work((job) => runner.handle(job));
+  log('waiting for scoring jobs');
+
+  let stopping = false;
+  const stop = async () => {
+    if (stopping) return;
+    stopping = true;
+    await queue.stop();
+    await pool.end().catch(() => undefined);
+    process.exit(0);
+  };
+  process.on('SIGTERM', () => void stop());
+  process.on('SIGINT', () => void stop());
+  // Started by the server: leave with it.
+  process.on('disconnect', () => void stop());
+}
+
+main().catch((error: Error) => {
+  process.stderr.write(`kinpath scoring worker: ${error.message}\n`);
+  process.exit(1);
+});

@@ -1,0 +1,158 @@
+import type { AdvisingNote, Shortlist } from '@kinpath/contracts';
+import { normalizeCourseCode } from '@kinpath/contracts';
+import { BadRequestException, Injectable } from '@nestjs/common';
+import { InjectDataSource } from '@nestjs/typeorm';
+import type { DataSource, EntityManager } from 'typeorm';
+import { AuditService } from '../audit/audit.service';
+import { ModelService } from '../model/model.service';
+import type { User } from '../users/entities/user.entity';
+import { StudentsService } from './students.service';
+import { auditAction, STUDENT_AUDIT } from './students-audit';
+
+type Actor = Pick<User, 'id' | 'email'>;
+
+/** Advising notes and the shortlist: kept per student ref, shared by every advisor. */
+@Injectable()
+export class AdvisingService {
+  constructor(
+    @InjectDataSource() private readonly dataSource: DataSource,
+    private readonly students: StudentsService,
+    private readonly model: ModelService,
+    private readonly audit: AuditService,
+  ) {}
+
+  async notes(ref: string): Promise<AdvisingNote[]> {
+    await this.students.find(ref);
+    const rows: {
+      id: string;
+      text: string;
+      created_at: Date;
+      display_name: string;
+      email: string;
+    }[] = await this.dataSource.query(
+      `SELECT n.id, n.text, n.created_at, u.display_name, u.email
+       FROM advising_notes n JOIN users u ON u.id = n.author_id
+       WHERE n.student_ref = $1 ORDER BY n.created_at DESC, n.id`,
+      [ref],
+    );
+    return rows.map((r) => ({
+      id: r.id,
+      text: r.text,
+      createdAt: new Date(r.created_at).toISOString(),
+      authorName: r.display_name,
+      authorEmail: r.email,
+    }));
+  }
+
+  async addNote(ref: string, text: string, actor: Actor): Promise<AdvisingNote> {
+    await this.students.find(ref);
+    const id = await this.dataSource.transaction(async (manager) => {
+      const rows: { id: string }[] = await manager.query(
+        `INSERT INTO advising_notes (student_ref, author_id, text) VALUES ($1, $2, $3) RETURNING id`,
+        [ref, actor.id, text],
+      );
+      // The note's text may be sensitive; the trail keeps only that one was written.
+      await this.audit.record(
+        {
+          actor,
+          action: auditAction(STUDENT_AUDIT.noteAdded),
+          target: ref,
+          detail: { noteId: rows[0].id, length: text.length },
+        },
+        manager,
+      );
+      return rows[0].id;
+    });
+    return (await this.notes(ref)).find((n) => n.id === id) as AdvisingNote;
+  }
+
+  async shortlist(ref: string): Promise<Shortlist> {
+    await this.students.find(ref);
+    return this.readShortlist(ref);
+  }
+
+  /**
+   * Replaces the shortlist with these courses. Courses already on it keep who
+   * added them and when; only an actual change is written and audited.
+   */
+  async replaceShortlist(ref: string, given: string[], actor: Actor): Promise<Shortlist> {
+    await this.students.find(ref);
+    const snapshot = await this.model.current();
+    const codes: string[] = [];
+    for (const value of given) {
+      const code = normalizeCourseCode(value);
+      if (!code || !snapshot.courses.has(code)) {
+        throw new BadRequestException(`'${value}' is not a course of the catalogue.`);
+      }
+      if (!codes.includes(code)) codes.push(code);
+    }
+    await this.dataSource.transaction(async (manager: EntityManager) => {
+      // Two advisors saving at once: one after the other, each seeing the other's result.
+      await manager.query(`SELECT pg_advisory_xact_lock(hashtext('kinpath:shortlist:' || $1))`, [
+        ref,
+      ]);
+      const current: { course_code: string }[] = await manager.query(
+        `SELECT course_code FROM shortlist_items WHERE student_ref = $1`,
+        [ref],
+      );
+      const before = new Set(current.map((r) => r.course_code));
+      const added = codes.filter((c) => !before.has(c));
+      const removed = [...before].filter((c) => !codes.includes(c)).sort();
+      if (added.length === 0 && removed.length === 0) return;
+      await manager.query(
+        `DELETE FROM shortlist_items WHERE student_ref = $1 AND course_code = ANY($2::text[])`,
+        [ref, removed],
+      );
+      await manager.query(
+        `INSERT INTO shortlist_items (student_ref, course_code, added_by)
+         SELECT $1, unnest($2::text[]), $3`,
+        [ref, added, actor.id],
+      );
+      await manager.query(
+        `INSERT INTO shortlist_changes (student_ref, changed_by) VALUES ($1, $2)
+         ON CONFLICT (student_ref) DO UPDATE SET changed_by = EXCLUDED.changed_by, changed_at = now()`,
+        [ref, actor.id],
+      );
+      await this.audit.record(
+        {
+          actor,
+          action: auditAction(STUDENT_AUDIT.shortlistChanged),
+          target: ref,
+          detail: { added, removed },
+        },
+        manager,
+      );
+    });
+    return this.readShortlist(ref);
+  }
+
+  private async readShortlist(ref: string): Promise<Shortlist> {
+    const snapshot = await this.model.current();
+    const items: { course_code: string; added_at: Date; display_name: string; email: string }[] =
+      await this.dataSource.query(
+        `SELECT i.course_code, i.added_at, u.display_name, u.email
+         FROM shortlist_items i JOIN users u ON u.id = i.added_by
+         WHERE i.student_ref = $1 ORDER BY i.added_at, i.course_code`,
+        [ref],
+      );
+    const change: { changed_at: Date; display_name: string; email: string }[] =
+      await this.dataSource.query(
+        `SELECT c.changed_at, u.display_name, u.email
+         FROM shortlist_changes c JOIN users u ON u.id = c.changed_by WHERE c.student_ref = $1`,
+        [ref],
+      );
+    return {
+      courseCodes: items.map((i) => i.course_code),
+      items: items.map((i) => ({
+        courseCode: i.course_code,
+        title: snapshot.courses.get(i.course_code)?.title ?? i.course_code,
+        addedAt: new Date(i.added_at).toISOString(),
+        addedByName: i.display_name,
+        addedByEmail: i.email,
+      })),
+      updatedAt: change[0] ? new Date(change[0].changed_at).toISOString() : null,
+      updatedByName: change[0]?.display_name ?? null,
+      updatedByEmail: change[0]?.email ?? null,
+    };
+  }
+}

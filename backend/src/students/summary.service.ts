@@ -1,0 +1,109 @@
+import type { SummaryResponse } from '@kinpath/contracts';
+import { normalizeCourseCode } from '@kinpath/contracts';
+import {
+  BadRequestException,
+  Injectable,
+  Logger,
+  ServiceUnavailableException,
+} from '@nestjs/common';
+import { InjectDataSource } from '@nestjs/typeorm';
+import type { DataSource } from 'typeorm';
+import { AuditService } from '../audit/audit.service';
+import { MailService } from '../mail/mail.service';
+import { ModelService } from '../model/model.service';
+import { PseudonymService } from '../pseudonym/pseudonym.service';
+import type { User } from '../users/entities/user.entity';
+import type { SendSummaryDto } from './dto/send-summary.dto';
+import { ElectivesService } from './electives.service';
+import { StudentsService } from './students.service';
+import { auditAction, STUDENT_AUDIT } from './students-audit';
+import { composeSummary } from './summary-text';
+
+/** Words that could be a student number: a few letters, then digits. */
+const NUMBER_LIKE = /\b[A-Za-z]{0,6}\d{4,12}\b/g;
+
+/** The advising summary e-mail to a student. */
+@Injectable()
+export class SummaryService {
+  private readonly logger = new Logger(SummaryService.name);
+
+  constructor(
+    @InjectDataSource() private readonly dataSource: DataSource,
+    private readonly students: StudentsService,
+    private readonly electives: ElectivesService,
+    private readonly model: ModelService,
+    private readonly pseudonyms: PseudonymService,
+    private readonly mail: MailService,
+    private readonly audit: AuditService,
+  ) {}
+
+  async send(
+    ref: string,
+    dto: SendSummaryDto,
+    actor: Pick<User, 'id' | 'email' | 'displayName'>,
+  ): Promise<SummaryResponse> {
+    await this.students.find(ref);
+    const snapshot = await this.model.current();
+    const codes: string[] = [];
+    for (const value of dto.courseCodes) {
+      const code = normalizeCourseCode(value);
+      if (!code || !snapshot.courses.has(code)) {
+        throw new BadRequestException(`'${value}' is not a course of the catalogue.`);
+      }
+      if (!codes.includes(code)) codes.push(code);
+    }
+    const message = dto.message?.trim() || null;
+    if (message && (await this.mentionsStudentNumber(message))) {
+      throw new BadRequestException(
+        'The message contains a student number; remove it, as the summary must not carry one.',
+      );
+    }
+    const estimates = await this.electives.estimates(ref, dto.term, { courseCodes: codes });
+    const mail = composeSummary({
+      term: estimates.term,
+      advisorName: actor.displayName,
+      advisorEmail: actor.email,
+      message,
+      electives: estimates.electives,
+    });
+    try {
+      await this.mail.send({ to: dto.to, ...mail, replyTo: actor.email });
+    } catch (error) {
+      this.logger.error(`An advising summary could not be sent: ${(error as Error).message}`);
+      throw new ServiceUnavailableException(
+        'The e-mail could not be sent: the mail server did not accept it. Try again in a moment.',
+      );
+    }
+    const sentAt = new Date();
+    // The address is the student's own data; the trail keeps what was sent, not where.
+    await this.audit.record({
+      actor,
+      action: auditAction(STUDENT_AUDIT.summarySent),
+      target: ref,
+      detail: {
+        term: estimates.term,
+        courseCodes: codes,
+        settingsVersion: estimates.settingsVersion,
+      },
+    });
+    return {
+      to: dto.to,
+      subject: mail.subject,
+      term: estimates.term,
+      courseCodes: codes,
+      sentAt: sentAt.toISOString(),
+    };
+  }
+
+  /** Whether a word of the message is the number of a student on record (compared by pseudonym). */
+  private async mentionsStudentNumber(message: string): Promise<boolean> {
+    const words = [...new Set(message.match(NUMBER_LIKE) ?? [])].slice(0, 100);
+    if (words.length === 0) return false;
+    const pseudonyms = words.map((w) => this.pseudonyms.pseudonymFor(w));
+    const rows: unknown[] = await this.dataSource.query(
+      `SELECT 1 FROM students WHERE pseudonym = ANY($1::text[]) LIMIT 1`,
+      [pseudonyms],
+    );
+    return rows.length > 0;
+  }
+}

@@ -1,0 +1,156 @@
+import { execFileSync, spawn, type ChildProcess } from 'node:child_process';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { api, bearer, DEMO_USERS, signIn, withDatabase } from '../support/api';
+import { startServer, type TestServer } from '../support/server';
+
+const REPO = resolve(__dirname, '..', '..', '..');
+const WORKER = resolve(__dirname, '..', '..', 'dist', 'forecasts', 'scoring-worker.js');
+
+let server: TestServer;
+const workers: ChildProcess[] = [];
+
+function startWorker(): ChildProcess {
+  const child = spawn(process.execPath, [WORKER], {
+    env: {
+      PATH: process.env.PATH ?? '',
+      KINPATH_DB_HOST: process.env.PGHOST ?? '127.0.0.1',
+      KINPATH_DB_PORT: process.env.PGPORT ?? '5432',
+      KINPATH_DB_USER: process.env.PGUSER ?? 'kinpath',
+      KINPATH_DB_PASSWORD: process.env.PGPASSWORD ?? '',
+      KINPATH_DB_NAME: server.databaseName,
+      KINPATH_LOG_LEVEL: 'warn',
+    },
+    stdio: ['ignore', 'ignore', 'inherit'],
+  });
+  workers.push(child);
+  return child;
+}
+
+async function stopWorkers(): Promise<void> {
+  await Promise.all(
+    workers.splice(0).map(
+      (w) =>
+        new Promise<void>((r) => {
+          if (w.exitCode !== null || w.signalCode !== null) return r();
+          w.once('exit', () => r());
+          w.kill('SIGTERM');
+        }),
+    ),
+  );
+}
+
+const db = <T>(fn: Parameters<typeof withDatabase<T>>[0]) => withDatabase(fn, server.databaseName);
+
+async function waitDone(runId: string): Promise<void> {
+  const deadline = Date.now() + 240_000;
+  for (;;) {
+    const status = await db(async (c) => {
+      const { rows } = await c.query(`SELECT status, error FROM scoring_runs WHERE id = $1`, [
+        runId,
+      ]);
+      return rows[0] as { status: string; error: string | null };
+    });
+    if (status.status === 'done') return;
+    if (status.status !== 'queued' && status.status !== 'scoring')
+      throw new Error(`run ${status.status}: ${status.error}`);
+    if (Date.now() > deadline) throw new Error('the scoring run did not finish in time');
+    await new Promise((r) => setTimeout(r, 500));
+  }
+}
+
+/** Everything a run stored, without its id, in a fixed order. */
+async function results(runId: string) {
+  return db(async (c) => {
+    const scored = await c.query(
+      `SELECT part, student_key, course_code, expected_load, fit, predicted_grade,
+         predicted_satisfaction, kin_grade, kin_satisfaction, probability
+       FROM scoring_results WHERE run_id = $1 ORDER BY part, student_key, course_code`,
+      [runId],
+    );
+    const courses = await c.query(
+      `SELECT part, course_code, expected, variance, low, high, actual, naive
+       FROM forecast_courses WHERE run_id = $1 ORDER BY part, course_code`,
+      [runId],
+    );
+    const run = await c.query(
+      `SELECT beta, beta_backtest, chunks_total FROM scoring_runs WHERE id = $1`,
+      [runId],
+    );
+    const chunkWorkers = await c.query(
+      `SELECT count(DISTINCT worker) AS n FROM scoring_chunks WHERE run_id = $1`,
+      [runId],
+    );
+    return {
+      scored: scored.rows,
+      courses: courses.rows,
+      run: run.rows[0],
+      workers: Number(chunkWorkers.rows[0].n),
+    };
+  });
+}
+
+// A smaller Halden Reach (600 students) keeps the start-up short; chunks of 60 students make
+// several chunks per part, so both worker processes get some.
+const demoDir = mkdtempSync(join(tmpdir(), 'kinpath-outlook-demo-'));
+
+beforeAll(async () => {
+  execFileSync(process.execPath, [
+    join(REPO, 'tools', 'demo', 'generate.mjs'),
+    '--out',
+    demoDir,
+    '--students',
+    '600',
+  ]);
+  // No scoring processes of the server's own: the test starts them.
+  server = await startServer({
+    KINPATH_SCORING_PROCESSES: '0',
+    KINPATH_SCORING_CHUNK: '60',
+    KINPATH_DEMO_DIR: demoDir,
+  });
+}, 120_000);
+
+afterAll(async () => {
+  await stopWorkers();
+  await server?.stop();
+  rmSync(demoDir, { recursive: true, force: true });
+});
+
+describe('cohort scoring across worker processes', () => {
+  it('stores identical results with one worker process and with two', async () => {
+    const first = await db(async (c) => {
+      const deadline = Date.now() + 60_000;
+      for (;;) {
+        const { rows } = await c.query(`SELECT id FROM scoring_runs ORDER BY created_at LIMIT 1`);
+        if (rows[0]) return rows[0].id as string;
+        if (Date.now() > deadline) throw new Error('no scoring run was queued at start');
+        await new Promise((r) => setTimeout(r, 300));
+      }
+    });
+    startWorker();
+    await waitDone(first);
+    const one = await results(first);
+    await stopWorkers();
+    expect(one.scored.length).toBeGreaterThan(500);
+    expect(one.run.chunks_total).toBeGreaterThan(4);
+
+    const registrar = await signIn(DEMO_USERS.registrar, undefined, server.url);
+    const res = await api(server.url)
+      .post('/api/forecasts/scoring')
+      .set(...bearer(registrar))
+      .send({});
+    expect(res.status).toBe(202);
+    startWorker();
+    startWorker();
+    await waitDone(res.body.id as string);
+    const two = await results(res.body.id as string);
+
+    expect(two.workers).toBe(2);
+    expect(two.run).toEqual(one.run);
+    expect(two.courses).toEqual(one.courses);
+    expect(two.scored.length).toBe(one.scored.length);
+    expect(two.scored).toEqual(one.scored);
+  }, 400_000);
+});

@@ -1,0 +1,146 @@
+import type { ReactNode } from 'react';
+import Box from '@mui/material/Box';
+import Chip from '@mui/material/Chip';
+import type { ElectiveEstimate, EstimateBasis, EstimateConfidence } from '@kinpath/contracts';
+import { BASIS_DESCRIPTIONS, BASIS_LABELS, CONFIDENCE_LABELS, fixed } from '../format';
+
+/** Text for screen readers only, e.g. which signal a "Kin" column counts for. */
+export function VisuallyHidden({ children }: { children: ReactNode }) {
+  return (
+    <Box
+      component="span"
+      sx={{
+        position: 'absolute',
+        // Strings: in `sx`, a bare 1 would mean 100%.
+        width: '1px',
+        height: '1px',
+        p: 0,
+        m: '-1px',
+        overflow: 'hidden',
+        clip: 'rect(0 0 0 0)',
+        whiteSpace: 'nowrap',
+        border: 0,
+      }}
+    >
+      {children}
+    </Box>
+  );
+}
+
+/** Baseline values are set in italics and say "baseline": never shown as if kin gave them. */
+function Estimate({ basis, children }: { basis: EstimateBasis; children: ReactNode }) {
+  if (basis === 'none') {
+    return (
+      <Box component="span" sx={{ color: 'text.secondary' }}>
+        no estimate
+      </Box>
+    );
+  }
+  return (
+    <Box
+      component="span"
+      className="kp-figures"
+      sx={{ whiteSpace: 'nowrap', fontStyle: basis === 'baseline' ? 'italic' : 'normal' }}
+    >
+      {children}
+      {basis === 'baseline' ? (
+        <Box component="span" sx={{ color: 'text.secondary', fontSize: '0.8em', ml: 0.5 }}>
+          baseline
+        </Box>
+      ) : null}
+    </Box>
+  );
+}
+
+export function PredictedGrade({ elective }: { elective: ElectiveEstimate }) {
+  const basis = elective.predictedGrade === null ? 'none' : elective.bases.grade;
+  return (
+    <Estimate basis={basis}>
+      {fixed(elective.predictedGrade, 2)}
+      {elective.predictedGradeLetter ? (
+        <Box component="span" sx={{ display: 'inline-block', minWidth: '2.2em', ml: 0.75 }}>
+          {elective.predictedGradeLetter}
+        </Box>
+      ) : null}
+    </Estimate>
+  );
+}
+
+export function PredictedSatisfaction({ elective }: { elective: ElectiveEstimate }) {
+  const basis = elective.predictedSatisfaction === null ? 'none' : elective.bases.satisfaction;
+  return <Estimate basis={basis}>{fixed(elective.predictedSatisfaction, 2)}</Estimate>;
+}
+
+const FIT_BASIS_NOTE = { grade: 'grade only', satisfaction: 'satisfaction only' } as const;
+
+export function Fit({ elective }: { elective: ElectiveEstimate }) {
+  if (elective.fit === null) return <Estimate basis="none">{null}</Estimate>;
+  return (
+    <Estimate basis={elective.basis === 'baseline' ? 'baseline' : 'neighbours'}>
+      <Box component="span" sx={{ fontWeight: 700 }}>
+        {fixed(elective.fit, 0)}
+      </Box>
+      {elective.fitBasis && elective.fitBasis !== 'both' ? (
+        <Box component="span" sx={{ color: 'text.secondary', fontSize: '0.8em', ml: 0.5 }}>
+          ({FIT_BASIS_NOTE[elective.fitBasis]})
+        </Box>
+      ) : null}
+    </Estimate>
+  );
+}
+
+/** The kin count beside each estimate; a count under the minimum is why the baseline served. */
+export function KinCount({ count }: { count: number }) {
+  return (
+    <Box component="span" className="kp-figures" sx={{ color: 'text.secondary' }}>
+      {count}
+    </Box>
+  );
+}
+
+export function BasisChip({ basis }: { basis: EstimateBasis }) {
+  return (
+    <Chip
+      size="small"
+      label={BASIS_LABELS[basis]}
+      title={BASIS_DESCRIPTIONS[basis]}
+      variant={basis === 'neighbours' ? 'filled' : 'outlined'}
+      sx={{
+        fontStyle: basis === 'baseline' ? 'italic' : 'normal',
+        borderStyle: basis === 'none' ? 'dashed' : 'solid',
+        bgcolor: basis === 'neighbours' ? 'primary.main' : 'transparent',
+        color: basis === 'neighbours' ? 'primary.contrastText' : 'text.primary',
+        borderColor: 'text.secondary',
+      }}
+    />
+  );
+}
+
+/** Confidence in words, with bars (1-3) as a second cue that does not rely on colour. */
+export function ConfidenceLabel({ confidence }: { confidence: EstimateConfidence }) {
+  const level = confidence === 'high' ? 3 : confidence === 'medium' ? 2 : 1;
+  return (
+    <Box component="span" sx={{ display: 'inline-flex', alignItems: 'center', gap: 0.75 }}>
+      <Box
+        component="span"
+        aria-hidden
+        sx={{ display: 'inline-flex', alignItems: 'flex-end', gap: '2px', height: 12 }}
+      >
+        {[1, 2, 3].map((bar) => (
+          <Box
+            key={bar}
+            component="span"
+            sx={{
+              width: 4,
+              height: 4 * bar,
+              bgcolor: bar <= level ? 'text.primary' : 'transparent',
+              border: 1,
+              borderColor: 'text.secondary',
+            }}
+          />
+        ))}
+      </Box>
+      {CONFIDENCE_LABELS[confidence]}
+    </Box>
+  );
+}

@@ -1,0 +1,217 @@
+import { useId, useMemo, useState } from 'react';
+import { useForm } from 'react-hook-form';
+import {
+  createColumnHelper,
+  flexRender,
+  getCoreRowModel,
+  useReactTable,
+} from '@tanstack/react-table';
+import Alert from '@mui/material/Alert';
+import Box from '@mui/material/Box';
+import Button from '@mui/material/Button';
+import Paper from '@mui/material/Paper';
+import Table from '@mui/material/Table';
+import TableBody from '@mui/material/TableBody';
+import TableCell from '@mui/material/TableCell';
+import TableContainer from '@mui/material/TableContainer';
+import TableHead from '@mui/material/TableHead';
+import TablePagination from '@mui/material/TablePagination';
+import TableRow from '@mui/material/TableRow';
+import TextField from '@mui/material/TextField';
+import Typography from '@mui/material/Typography';
+import Download from '@mui/icons-material/Download';
+import type { AuditEntry } from '@kinpath/contracts';
+import { PageHeader } from '../../../components/PageHeader';
+import { downloadAuditCsv, useAuditTrail, type AuditFilters } from '../api/audit';
+
+const column = createColumnHelper<AuditEntry>();
+
+/** `YYYY-MM-DD HH:MM:SS` in UTC: sortable, unambiguous, the same for every reader. */
+function when(iso: string): string {
+  return `${iso.slice(0, 10)} ${iso.slice(11, 19)}`;
+}
+
+function detailText(detail: Record<string, unknown>): string {
+  return Object.entries(detail)
+    .map(
+      ([key, value]) =>
+        `${key}: ${typeof value === 'object' ? JSON.stringify(value) : String(value)}`,
+    )
+    .join('; ');
+}
+
+const columns = [
+  column.accessor('at', {
+    header: 'When (UTC)',
+    cell: (info) => <span className="kp-figures">{when(info.getValue())}</span>,
+  }),
+  column.accessor((e) => e.actorEmail ?? 'system', { id: 'actor', header: 'Actor' }),
+  column.accessor('action', { header: 'Action' }),
+  column.accessor((e) => e.target ?? '', { id: 'target', header: 'Target' }),
+  column.accessor((e) => detailText(e.detail), { id: 'detail', header: 'Detail' }),
+];
+
+const NO_FILTERS: AuditFilters = { action: '', actor: '', from: '', to: '' };
+
+export function AuditPage() {
+  const headingId = useId();
+  const [filters, setFilters] = useState<AuditFilters>(NO_FILTERS);
+  const [page, setPage] = useState(0);
+  const [pageSize, setPageSize] = useState(50);
+  const [exportError, setExportError] = useState<string | null>(null);
+  const [exporting, setExporting] = useState(false);
+  const trail = useAuditTrail(filters, page + 1, pageSize);
+  const { register, handleSubmit, reset } = useForm<AuditFilters>({ defaultValues: NO_FILTERS });
+
+  const data = useMemo(() => trail.data?.items ?? [], [trail.data]);
+  const table = useReactTable({ data, columns, getCoreRowModel: getCoreRowModel() });
+
+  const apply = handleSubmit((values) => {
+    setFilters(values);
+    setPage(0);
+  });
+
+  const exportCsv = async () => {
+    setExportError(null);
+    setExporting(true);
+    try {
+      await downloadAuditCsv(filters);
+    } catch {
+      setExportError('The export could not be made. Try again in a moment.');
+    } finally {
+      setExporting(false);
+    }
+  };
+
+  return (
+    <>
+      <PageHeader
+        title="Audit trail"
+        lead="Who did what, and when: sign-ins, student lookups, imports, settings and account changes."
+        actions={
+          <Button
+            variant="outlined"
+            startIcon={<Download aria-hidden />}
+            onClick={exportCsv}
+            loading={exporting}
+          >
+            Download CSV
+          </Button>
+        }
+      />
+      <Box
+        component="form"
+        role="search"
+        aria-label="Filter the audit trail"
+        onSubmit={apply}
+        noValidate
+        sx={{ display: 'flex', flexWrap: 'wrap', gap: 2, alignItems: 'flex-start', mb: 2 }}
+      >
+        <TextField label="Actor (e-mail contains)" {...register('actor')} sx={{ minWidth: 240 }} />
+        <TextField
+          select
+          label="Action"
+          {...register('action')}
+          defaultValue=""
+          slotProps={{ select: { native: true }, inputLabel: { shrink: true } }}
+          sx={{ minWidth: 220 }}
+        >
+          <option value="">Every action</option>
+          {(trail.data?.actions ?? []).map((action) => (
+            <option key={action} value={action}>
+              {action}
+            </option>
+          ))}
+        </TextField>
+        <TextField
+          label="From"
+          type="date"
+          {...register('from')}
+          slotProps={{ inputLabel: { shrink: true } }}
+        />
+        <TextField
+          label="To"
+          type="date"
+          {...register('to')}
+          slotProps={{ inputLabel: { shrink: true } }}
+        />
+        <Button type="submit" variant="contained" sx={{ mt: 1 }}>
+          Apply filters
+        </Button>
+        <Button
+          sx={{ mt: 1 }}
+          onClick={() => {
+            reset(NO_FILTERS);
+            setFilters(NO_FILTERS);
+            setPage(0);
+          }}
+        >
+          Clear
+        </Button>
+      </Box>
+      {exportError ? (
+        <Alert severity="error" role="alert" sx={{ mb: 2 }}>
+          {exportError}
+        </Alert>
+      ) : null}
+      {trail.isError ? (
+        <Alert severity="error" role="alert">
+          The audit trail could not be loaded: {''}
+          {String(
+            (trail.error as { response?: { data?: { message?: unknown } } })?.response?.data
+              ?.message ?? 'try again in a moment.',
+          )}
+        </Alert>
+      ) : null}
+      <Typography id={headingId} variant="h2" sx={{ mb: 1 }}>
+        Entries
+      </Typography>
+      <Typography role="status" sx={{ color: 'text.secondary', mb: 1 }} className="kp-figures">
+        {trail.isPending ? 'Loading the audit trail…' : `${trail.data?.total ?? 0} entries match.`}
+      </Typography>
+      <TableContainer component={Paper} variant="outlined">
+        <Table size="small" aria-labelledby={headingId}>
+          <TableHead>
+            {table.getHeaderGroups().map((group) => (
+              <TableRow key={group.id}>
+                {group.headers.map((header) => (
+                  <TableCell key={header.id}>
+                    {flexRender(header.column.columnDef.header, header.getContext())}
+                  </TableCell>
+                ))}
+              </TableRow>
+            ))}
+          </TableHead>
+          <TableBody>
+            {table.getRowModel().rows.map((row) => (
+              <TableRow key={row.id}>
+                {row.getVisibleCells().map((cell) => (
+                  <TableCell key={cell.id} sx={{ verticalAlign: 'top', wordBreak: 'break-word' }}>
+                    {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                  </TableCell>
+                ))}
+              </TableRow>
+            ))}
+            {!trail.isPending && data.length === 0 ? (
+              <TableRow>
+                <TableCell colSpan={columns.length}>No entry matches these filters.</TableCell>
+              </TableRow>
+            ) : null}
+          </TableBody>
+        </Table>
+      </TableContainer>
+      <TablePagination
+        component="div"
+        count={trail.data?.total ?? 0}
+        page={page}
+        onPageChange={(_, next) => setPage(next)}
+        rowsPerPage={pageSize}
+        rowsPerPageOptions={[25, 50, 100, 200]}
+        onRowsPerPageChange={(event) => {
+          setPageSize(Number(event.target.value));
+          setPage(0);
+        }}
+      />
+    </>
+  );
+}

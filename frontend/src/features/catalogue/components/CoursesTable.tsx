@@ -1,0 +1,257 @@
+import { useMemo, useState } from 'react';
+import {
+  createColumnHelper,
+  flexRender,
+  getCoreRowModel,
+  getFilteredRowModel,
+  getPaginationRowModel,
+  getSortedRowModel,
+  useReactTable,
+  type ColumnFiltersState,
+  type SortingState,
+} from '@tanstack/react-table';
+import Box from '@mui/material/Box';
+import Paper from '@mui/material/Paper';
+import Table from '@mui/material/Table';
+import TableBody from '@mui/material/TableBody';
+import TableCell from '@mui/material/TableCell';
+import TableContainer from '@mui/material/TableContainer';
+import TableHead from '@mui/material/TableHead';
+import TablePagination from '@mui/material/TablePagination';
+import TableRow from '@mui/material/TableRow';
+import TableSortLabel from '@mui/material/TableSortLabel';
+import TextField from '@mui/material/TextField';
+import Typography from '@mui/material/Typography';
+import type { CourseSummary } from '@kinpath/contracts';
+import { formatCount } from '../../imports/words';
+
+const column = createColumnHelper<CourseSummary>();
+
+export type ElectiveFilter = '' | 'elective' | 'required';
+
+function columnsFor(creditDecimals: number) {
+  return [
+    column.accessor('courseCode', {
+      header: 'Code',
+      cell: (info) => <Box sx={{ whiteSpace: 'nowrap' }}>{info.getValue()}</Box>,
+    }),
+    column.accessor('title', { header: 'Title' }),
+    column.accessor('department', { header: 'Department', filterFn: 'equalsString' }),
+    column.accessor((c) => c.credits ?? -1, {
+      id: 'credits',
+      header: 'Credits',
+      cell: (info) => {
+        const credits = info.row.original.credits;
+        return credits === null ? '—' : credits.toFixed(creditDecimals);
+      },
+      meta: { numeric: true },
+    }),
+    column.accessor((c) => c.level ?? '', {
+      id: 'level',
+      header: 'Level',
+      cell: (info) => info.getValue() || '—',
+    }),
+    column.accessor('elective', {
+      header: 'Elective',
+      cell: (info) => (info.getValue() ? 'Yes' : 'No'),
+      filterFn: (row, id, wanted: ElectiveFilter) =>
+        wanted === '' || row.getValue<boolean>(id) === (wanted === 'elective'),
+    }),
+    column.accessor('prerequisites', {
+      header: 'Prerequisites',
+      enableSorting: false,
+      cell: (info) => info.getValue() || 'None',
+    }),
+  ];
+}
+
+const PAGE_SIZE = 50;
+
+/** The catalogue, filterable by department, electives and a search on code or title. */
+export function CoursesTable({
+  courses,
+  labelledBy,
+}: {
+  courses: CourseSummary[];
+  labelledBy: string;
+}) {
+  const [sorting, setSorting] = useState<SortingState>([{ id: 'courseCode', desc: false }]);
+  const [filters, setFilters] = useState<ColumnFiltersState>([]);
+  const [search, setSearch] = useState('');
+  const [pageIndex, setPageIndex] = useState(0);
+  const data = useMemo(() => courses, [courses]);
+  const departments = useMemo(
+    () => [...new Set(courses.map((c) => c.department))].sort(),
+    [courses],
+  );
+  // Whole credits read as "3"; a catalogue with half credits shows one decimal throughout.
+  const columns = useMemo(
+    () =>
+      columnsFor(courses.some((c) => c.credits !== null && !Number.isInteger(c.credits)) ? 1 : 0),
+    [courses],
+  );
+
+  const table = useReactTable({
+    data,
+    columns,
+    state: {
+      sorting,
+      columnFilters: filters,
+      globalFilter: search,
+      pagination: { pageIndex, pageSize: PAGE_SIZE },
+    },
+    onSortingChange: setSorting,
+    onColumnFiltersChange: setFilters,
+    onGlobalFilterChange: setSearch,
+    globalFilterFn: (row, _id, wanted: string) => {
+      const needle = wanted.trim().toLowerCase();
+      return (
+        row.original.courseCode.toLowerCase().includes(needle) ||
+        row.original.title.toLowerCase().includes(needle)
+      );
+    },
+    getCoreRowModel: getCoreRowModel(),
+    getSortedRowModel: getSortedRowModel(),
+    getFilteredRowModel: getFilteredRowModel(),
+    getPaginationRowModel: getPaginationRowModel(),
+    autoResetPageIndex: false,
+  });
+  const filterOf = (id: string) => (filters.find((f) => f.id === id)?.value as string) ?? '';
+  const setFilter = (id: string, value: string) => {
+    setPageIndex(0);
+    setFilters((current) => [
+      ...current.filter((f) => f.id !== id),
+      ...(value ? [{ id, value }] : []),
+    ]);
+  };
+  const shown = table.getFilteredRowModel().rows.length;
+  const pageRows = table.getRowModel().rows;
+
+  return (
+    <Box>
+      <Box sx={{ display: 'flex', gap: 2, alignItems: 'center', mb: 1.5, flexWrap: 'wrap' }}>
+        <TextField
+          select
+          label="Department"
+          value={filterOf('department')}
+          onChange={(event) => setFilter('department', event.target.value)}
+          sx={{ maxWidth: 180 }}
+          slotProps={{ select: { native: true }, inputLabel: { shrink: true } }}
+        >
+          <option value="">All departments</option>
+          {departments.map((code) => (
+            <option key={code} value={code}>
+              {code}
+            </option>
+          ))}
+        </TextField>
+        <TextField
+          select
+          label="Electives"
+          value={filterOf('elective')}
+          onChange={(event) => setFilter('elective', event.target.value)}
+          sx={{ maxWidth: 220 }}
+          slotProps={{ select: { native: true }, inputLabel: { shrink: true } }}
+        >
+          <option value="">Electives and others</option>
+          <option value="elective">Electives only</option>
+          <option value="required">Not electives</option>
+        </TextField>
+        <TextField
+          label="Search code or title"
+          value={search}
+          onChange={(event) => {
+            setPageIndex(0);
+            setSearch(event.target.value);
+          }}
+          sx={{ maxWidth: 260 }}
+          slotProps={{ htmlInput: { type: 'search' } }}
+        />
+        <Typography role="status" sx={{ color: 'text.secondary' }} className="kp-figures">
+          {shown === courses.length
+            ? `${formatCount(courses.length)} ${courses.length === 1 ? 'course' : 'courses'}`
+            : `${formatCount(shown)} of ${formatCount(courses.length)} courses`}
+        </Typography>
+      </Box>
+      {/* Focusable, so that a narrow window can be scrolled sideways from the keyboard. */}
+      <TableContainer
+        component={Paper}
+        variant="outlined"
+        tabIndex={0}
+        role="region"
+        aria-labelledby={labelledBy}
+      >
+        <Table aria-labelledby={labelledBy}>
+          <TableHead>
+            {table.getHeaderGroups().map((group) => (
+              <TableRow key={group.id}>
+                {group.headers.map((header) => {
+                  const sorted = header.column.getIsSorted();
+                  const numeric = header.column.columnDef.meta?.numeric;
+                  const label = flexRender(header.column.columnDef.header, header.getContext());
+                  const sortable = header.column.getCanSort();
+                  return (
+                    <TableCell
+                      key={header.id}
+                      align={numeric ? 'right' : 'left'}
+                      aria-sort={
+                        !sortable
+                          ? undefined
+                          : sorted === 'asc'
+                            ? 'ascending'
+                            : sorted === 'desc'
+                              ? 'descending'
+                              : 'none'
+                      }
+                    >
+                      {sortable ? (
+                        <TableSortLabel
+                          active={sorted !== false}
+                          direction={sorted === 'desc' ? 'desc' : 'asc'}
+                          onClick={header.column.getToggleSortingHandler()}
+                        >
+                          {label}
+                        </TableSortLabel>
+                      ) : (
+                        label
+                      )}
+                    </TableCell>
+                  );
+                })}
+              </TableRow>
+            ))}
+          </TableHead>
+          <TableBody>
+            {pageRows.map((row) => (
+              <TableRow key={row.id} hover>
+                {row.getVisibleCells().map((cell) => (
+                  <TableCell
+                    key={cell.id}
+                    align={cell.column.columnDef.meta?.numeric ? 'right' : 'left'}
+                  >
+                    {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                  </TableCell>
+                ))}
+              </TableRow>
+            ))}
+            {pageRows.length === 0 ? (
+              <TableRow>
+                <TableCell colSpan={columns.length}>No course matches the filters.</TableCell>
+              </TableRow>
+            ) : null}
+          </TableBody>
+        </Table>
+        {shown > PAGE_SIZE ? (
+          <TablePagination
+            component="div"
+            count={shown}
+            page={pageIndex}
+            onPageChange={(_, page) => setPageIndex(page)}
+            rowsPerPage={PAGE_SIZE}
+            rowsPerPageOptions={[PAGE_SIZE]}
+          />
+        ) : null}
+      </TableContainer>
+    </Box>
+  );
+}

@@ -1,0 +1,152 @@
+import { useMutation, useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
+import type {
+  ImportAccepted,
+  ImportKind,
+  ImportMapping,
+  ImportPreview,
+  ImportRejection,
+  ImportSummary,
+  SavedImportMapping,
+  SaveImportMappingRequest,
+} from '@kinpath/contracts';
+import { apiClient } from '../../../lib/api-client';
+import { isRunning } from '../words';
+
+export const importsQueryKey = ['imports'] as const;
+const importQueryKey = (id: string) => ['imports', 'one', id] as const;
+const rejectionsQueryKey = (id: string) => ['imports', 'rejections', id] as const;
+const mappingsQueryKey = ['imports', 'mappings'] as const;
+
+/** How often a running job is asked about, in milliseconds. */
+export const POLL_INTERVAL_MS = 1000;
+
+export function useImports() {
+  return useQuery({
+    queryKey: importsQueryKey,
+    queryFn: async () => (await apiClient.get<ImportSummary[]>('/imports')).data,
+  });
+}
+
+/** One import; asked again every second while its job runs, then left alone. */
+export function useImport(id: string | null) {
+  return useQuery({
+    queryKey: importQueryKey(id ?? ''),
+    queryFn: async () => (await apiClient.get<ImportSummary>(`/imports/${id}`)).data,
+    enabled: id !== null,
+    staleTime: 0,
+    refetchInterval: (query) => (isRunning(query.state.data?.status) ? POLL_INTERVAL_MS : false),
+  });
+}
+
+export function useRejections(id: string, enabled: boolean) {
+  return useQuery({
+    queryKey: rejectionsQueryKey(id),
+    queryFn: async () => (await apiClient.get<ImportRejection[]>(`/imports/${id}/errors`)).data,
+    enabled,
+  });
+}
+
+/** After a commit or rollback the catalogue, terms and grade points may all have changed. */
+export function refreshAfterChange(queryClient: QueryClient) {
+  return Promise.all([
+    queryClient.invalidateQueries({ queryKey: importsQueryKey }),
+    queryClient.invalidateQueries({ queryKey: ['terms'] }),
+    queryClient.invalidateQueries({ queryKey: ['courses'] }),
+  ]);
+}
+
+export interface UploadRequest {
+  file: File;
+  kind: ImportKind;
+  mapping: ImportMapping | null;
+  commit: boolean;
+  onProgress?: (fraction: number | null) => void;
+}
+
+export function useUpload() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: async ({ file, kind, mapping, commit, onProgress }: UploadRequest) => {
+      const form = new FormData();
+      // Text fields first: the server reads them before it streams the file to disk.
+      form.append('kind', kind);
+      if (mapping) form.append('mapping', JSON.stringify(mapping));
+      if (commit) form.append('commit', 'true');
+      form.append('file', file, file.name);
+      const response = await apiClient.post<ImportAccepted>('/imports', form, {
+        // A large file takes longer than the client's usual minute to send.
+        timeout: 0,
+        onUploadProgress: (event) =>
+          onProgress?.(event.total ? Math.min(1, event.loaded / event.total) : null),
+      });
+      return response.data;
+    },
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: importsQueryKey }),
+  });
+}
+
+/** Enough of the file's start for its header and first rows; the server reads no more. */
+export const PREVIEW_BYTES = 256 * 1024;
+
+export function usePreview() {
+  return useMutation({
+    mutationFn: async (file: File) => {
+      const form = new FormData();
+      form.append('file', file.slice(0, PREVIEW_BYTES), file.name);
+      return (await apiClient.post<ImportPreview>('/imports/preview', form)).data;
+    },
+  });
+}
+
+export function useSavedMappings() {
+  return useQuery({
+    queryKey: mappingsQueryKey,
+    queryFn: async () => (await apiClient.get<SavedImportMapping[]>('/imports/mappings')).data,
+  });
+}
+
+export function useSaveMapping() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: async (request: SaveImportMappingRequest) =>
+      (await apiClient.post<SavedImportMapping>('/imports/mappings', request)).data,
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: mappingsQueryKey }),
+  });
+}
+
+function useImportAction(action: 'commit' | 'rollback') {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: async (id: string) =>
+      (await apiClient.post<ImportSummary>(`/imports/${id}/${action}`)).data,
+    onSuccess: async (summary) => {
+      queryClient.setQueryData(importQueryKey(summary.id), summary);
+      await refreshAfterChange(queryClient);
+    },
+  });
+}
+
+export const useCommit = () => useImportAction('commit');
+export const useRollback = () => useImportAction('rollback');
+
+/** The rejected rows as the server's CSV, saved by the browser as a file. */
+export async function downloadRejections(summary: ImportSummary): Promise<void> {
+  const response = await apiClient.get<Blob>(`/imports/${summary.id}/errors`, {
+    headers: { Accept: 'text/csv' },
+    responseType: 'blob',
+  });
+  const url = URL.createObjectURL(response.data);
+  const link = document.createElement('a');
+  link.href = url;
+  link.download = rejectionsFileName(summary.fileName);
+  document.body.append(link);
+  link.click();
+  link.remove();
+  // Revoked a little later: some browsers start the download after the click returns.
+  setTimeout(() => URL.revokeObjectURL(url), 10_000);
+}
+
+export function rejectionsFileName(fileName: string): string {
+  const base = fileName.replace(/\.[^.]*$/, '') || 'import';
+  return `${base}-rejected-rows.csv`;
+}

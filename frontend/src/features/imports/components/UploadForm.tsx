@@ -1,0 +1,262 @@
+import { useEffect, useId, useMemo, useState } from 'react';
+import { Controller, useForm } from 'react-hook-form';
+import { Link as RouterLink } from 'react-router';
+import Alert from '@mui/material/Alert';
+import Box from '@mui/material/Box';
+import Button from '@mui/material/Button';
+import Checkbox from '@mui/material/Checkbox';
+import FormControlLabel from '@mui/material/FormControlLabel';
+import LinearProgress from '@mui/material/LinearProgress';
+import Link from '@mui/material/Link';
+import Stack from '@mui/material/Stack';
+import TextField from '@mui/material/TextField';
+import Typography from '@mui/material/Typography';
+import { IMPORT_FIELDS, IMPORT_KINDS, type ImportKind } from '@kinpath/contracts';
+import { apiMessage } from '../../../lib/api-client';
+import { fieldProps } from '../../../lib/form';
+import { usePreview, useUpload } from '../api/imports';
+import {
+  columnsFromSuggestion,
+  headersDiffer,
+  mappingProblems,
+  toMapping,
+  uploadFailure,
+  type FieldColumns,
+  type UploadFailure,
+} from '../messages';
+import { KIND_LABELS } from '../words';
+import { ColumnMapping } from './ColumnMapping';
+import { FileDropZone } from './FileDropZone';
+
+interface UploadFields {
+  kind: ImportKind | '';
+  file: File | null;
+  commitAtOnce: boolean;
+}
+
+const EMPTY: UploadFields = { kind: '', file: null, commitAtOnce: false };
+
+interface UploadFormProps {
+  /** Called with the new import's id once the server has taken the file. */
+  onUploaded: (id: string) => void;
+}
+
+/** Chooses a file and its kind, maps its columns when needed, and sends it with a progress bar. */
+export function UploadForm({ onUploaded }: UploadFormProps) {
+  const upload = useUpload();
+  const preview = usePreview();
+  // The share of the file sent so far; null while the browser cannot tell.
+  const [progress, setProgress] = useState<number | null>(null);
+  const progressLabelId = useId();
+  const [failure, setFailure] = useState<UploadFailure | null>(null);
+  const [columns, setColumns] = useState<FieldColumns>({});
+  const [showMapping, setShowMapping] = useState(false);
+  const [mappingTried, setMappingTried] = useState(false);
+  const {
+    control,
+    register,
+    handleSubmit,
+    watch,
+    reset,
+    formState: { errors, isSubmitting },
+  } = useForm<UploadFields>({ defaultValues: EMPTY });
+  const kind = watch('kind');
+  const file = watch('file');
+
+  // The preview is read once per chosen file; it serves every kind.
+  const { mutate: readPreview, reset: resetPreview } = preview;
+  useEffect(() => {
+    if (file) readPreview(file);
+    else resetPreview();
+  }, [file, readPreview, resetPreview]);
+
+  const previewData = preview.data && file ? preview.data : null;
+  const differs = useMemo(
+    () => (kind && previewData ? headersDiffer(kind, previewData) : false),
+    [kind, previewData],
+  );
+  // A new file or kind starts from the server's suggestion.
+  useEffect(() => {
+    if (kind && previewData) setColumns(columnsFromSuggestion(kind, previewData));
+    setMappingTried(false);
+    setShowMapping(false);
+  }, [kind, previewData]);
+
+  const problems = kind && previewData ? mappingProblems(kind, columns) : {};
+  const mappingVisible = Boolean(kind && previewData && (differs || showMapping));
+
+  const onSubmit = handleSubmit(async (values) => {
+    if (!values.file || !values.kind) return;
+    setFailure(null);
+    if (previewData && Object.keys(problems).length > 0) {
+      setMappingTried(true);
+      setShowMapping(true);
+      return;
+    }
+    setProgress(null);
+    try {
+      const accepted = await upload.mutateAsync({
+        file: values.file,
+        kind: values.kind,
+        mapping: previewData ? toMapping(columns) : null,
+        commit: values.commitAtOnce,
+        onProgress: setProgress,
+      });
+      reset(EMPTY);
+      onUploaded(accepted.id);
+    } catch (error) {
+      setFailure(uploadFailure(error));
+    }
+  });
+
+  const kindField = fieldProps(
+    register('kind', { required: 'Choose what kind of file this is.' }),
+    errors.kind?.message,
+  );
+  const required = kind ? IMPORT_FIELDS[kind].filter((f) => f.required).map((f) => f.name) : [];
+
+  return (
+    <form onSubmit={onSubmit} noValidate aria-label="New import">
+      <Stack spacing={2}>
+        <TextField
+          select
+          label="Kind of file"
+          {...kindField}
+          slotProps={{
+            ...kindField.slotProps,
+            select: { native: true },
+            inputLabel: { shrink: true },
+          }}
+          sx={{ maxWidth: 320 }}
+        >
+          <option value="">Choose a kind…</option>
+          {IMPORT_KINDS.map((value) => (
+            <option key={value} value={value}>
+              {KIND_LABELS[value]}
+            </option>
+          ))}
+        </TextField>
+        {kind ? (
+          <Typography variant="body2" sx={{ color: 'text.secondary', mt: -1 }}>
+            Required columns: {required.join(', ')}.
+          </Typography>
+        ) : null}
+
+        <Controller
+          control={control}
+          name="file"
+          rules={{ validate: (value) => (value ? true : 'Choose a CSV file to import.') }}
+          render={({ field, fieldState }) => (
+            <FileDropZone
+              file={field.value}
+              onChange={(chosen) => {
+                setFailure(null);
+                field.onChange(chosen);
+              }}
+              inputRef={field.ref}
+              error={fieldState.error?.message}
+              disabled={isSubmitting}
+            />
+          )}
+        />
+
+        {file && preview.isPending ? (
+          <Typography role="status" variant="body2" sx={{ color: 'text.secondary' }}>
+            Reading the file’s header…
+          </Typography>
+        ) : null}
+        {file && preview.isError ? (
+          <Alert severity="warning" role="alert">
+            The file’s first rows could not be read ({apiMessage(preview.error) ?? 'no answer'}). It
+            can still be uploaded; the server checks every row.
+          </Alert>
+        ) : null}
+
+        {kind && previewData && !mappingVisible ? (
+          <Box sx={{ display: 'flex', gap: 1, alignItems: 'center', flexWrap: 'wrap' }}>
+            <Typography variant="body2" role="status">
+              Every {KIND_LABELS[kind].toLowerCase()} column was found by its name.
+            </Typography>
+            <Button size="small" onClick={() => setShowMapping(true)}>
+              Review columns
+            </Button>
+          </Box>
+        ) : null}
+        {mappingVisible && kind && previewData ? (
+          <ColumnMapping
+            kind={kind}
+            preview={previewData}
+            columns={columns}
+            onChange={setColumns}
+            problems={mappingTried ? problems : {}}
+            differs={differs}
+          />
+        ) : null}
+
+        <Controller
+          control={control}
+          name="commitAtOnce"
+          render={({ field }) => (
+            <FormControlLabel
+              control={
+                <Checkbox
+                  checked={field.value}
+                  onChange={(event) => field.onChange(event.target.checked)}
+                  onBlur={field.onBlur}
+                  inputRef={field.ref}
+                />
+              }
+              label="Commit at once when no row is rejected"
+            />
+          )}
+        />
+
+        {failure ? (
+          <Alert severity="error" role="alert">
+            {failure.text}
+            {failure.earlierImportId ? (
+              <>
+                {' '}
+                <Link component={RouterLink} to={`?import=${failure.earlierImportId}`}>
+                  Open the earlier import
+                </Link>
+              </>
+            ) : null}
+          </Alert>
+        ) : null}
+
+        {upload.isPending ? (
+          <Box>
+            <Box sx={{ display: 'flex', justifyContent: 'space-between', mb: 0.5 }}>
+              <Typography id={progressLabelId} variant="body2">
+                Uploading {file?.name}
+              </Typography>
+              {/* The bar carries the value for assistive technology. */}
+              <Typography variant="body2" aria-hidden className="kp-figures">
+                {progress === null ? '' : `${Math.round(progress * 100)} %`}
+              </Typography>
+            </Box>
+            {progress === null ? (
+              <LinearProgress aria-labelledby={progressLabelId} />
+            ) : (
+              <LinearProgress
+                variant="determinate"
+                value={Math.round(progress * 100)}
+                aria-labelledby={progressLabelId}
+              />
+            )}
+          </Box>
+        ) : null}
+
+        <Button
+          type="submit"
+          variant="contained"
+          loading={isSubmitting}
+          sx={{ alignSelf: 'flex-start' }}
+        >
+          Upload and check
+        </Button>
+      </Stack>
+    </form>
+  );
+}

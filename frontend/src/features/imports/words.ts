@@ -1,0 +1,104 @@
+import type { ImportKind, ImportStatus, ImportSummary } from '@kinpath/contracts';
+
+/** The kinds as registrar staff name them; a records import is "term data" (product.md). */
+export const KIND_LABELS: Record<ImportKind, string> = {
+  catalogue: 'Catalogue',
+  offerings: 'Offerings',
+  students: 'Students',
+  records: 'Term data',
+};
+
+/** What a kind's rows are, inside a sentence: "1,204 accepted rows of term data". */
+export const KIND_DATA: Record<ImportKind, string> = {
+  catalogue: 'catalogue data',
+  offerings: 'offerings',
+  students: 'student data',
+  records: 'term data',
+};
+
+/** The key that decides whether a row replaces an existing one (data.md). */
+export const KIND_KEYS: Record<ImportKind, string> = {
+  catalogue: 'the same course code',
+  offerings: 'the same term and course code',
+  students: 'the same student',
+  records: 'the same student, term and course',
+};
+
+/** The order imports depend on each other, with what each one brings. */
+export const IMPORT_ORDER: readonly { kind: ImportKind; what: string }[] = [
+  {
+    kind: 'catalogue',
+    what: 'courses with their department, credits, whether they are electives, and prerequisites.',
+  },
+  { kind: 'offerings', what: 'which courses run in which term, with sections and seats.' },
+  {
+    kind: 'students',
+    what: 'program, entry term and status. Student numbers are replaced by pseudonyms as they are imported.',
+  },
+  {
+    kind: 'records',
+    what: 'each student’s grade and satisfaction per course and term, the records every estimate rests on.',
+  },
+];
+
+const STATUS_LABELS: Record<ImportStatus, string> = {
+  queued: 'Waiting',
+  validating: 'Checking rows',
+  validated: 'Checked, not committed',
+  committing: 'Committing',
+  committed: 'Committed',
+  failed: 'Failed',
+  rolled_back: 'Rolled back',
+};
+
+/** The status in words; a commit of only the accepted rows says so. */
+export function statusLabel(summary: Pick<ImportSummary, 'status' | 'partial'>): string {
+  if (summary.status === 'committed' && summary.partial) return 'Committed, partial';
+  return STATUS_LABELS[summary.status];
+}
+
+/** While an import is in one of these, its job is running and the page keeps asking. */
+export const RUNNING_STATUSES: readonly ImportStatus[] = ['queued', 'validating', 'committing'];
+
+export function isRunning(status: ImportStatus | undefined): boolean {
+  return status !== undefined && RUNNING_STATUSES.includes(status);
+}
+
+const COUNT = new Intl.NumberFormat('en-US');
+
+export function formatCount(value: number): string {
+  return COUNT.format(value);
+}
+
+/** "1 row", "1,204 rows". */
+export function rows(count: number, noun = 'row'): string {
+  return `${formatCount(count)} ${count === 1 ? noun : `${noun}s`}`;
+}
+
+/** Local date and time as `YYYY-MM-DD HH:MM`: unambiguous, and it sorts as it reads. */
+export function dateTime(value: string | null): string {
+  if (!value) return '—';
+  const date = new Date(value);
+  if (Number.isNaN(date.getTime())) return value;
+  const pad = (n: number) => String(n).padStart(2, '0');
+  return `${date.getFullYear()}-${pad(date.getMonth() + 1)}-${pad(date.getDate())} ${pad(
+    date.getHours(),
+  )}:${pad(date.getMinutes())}`;
+}
+
+/** Milliseconds as "45 ms", "12.0 s" or "3 min 05 s". */
+export function duration(ms: number | null): string {
+  if (ms === null) return '—';
+  if (ms < 1000) return `${Math.round(ms)} ms`;
+  if (ms < 60_000) return `${(ms / 1000).toFixed(1)} s`;
+  const minutes = Math.floor(ms / 60_000);
+  const seconds = Math.round((ms - minutes * 60_000) / 1000);
+  return `${minutes} min ${String(seconds).padStart(2, '0')} s`;
+}
+
+/** Bytes as "812 B", "14.2 KB", "3.1 MB". */
+export function fileSize(bytes: number): string {
+  if (bytes < 1024) return `${bytes} B`;
+  if (bytes < 1024 * 1024) return `${(bytes / 1024).toFixed(1)} KB`;
+  return `${(bytes / (1024 * 1024)).toFixed(1)} MB`;
+}
