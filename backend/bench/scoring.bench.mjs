@@ -191,6 +191,7 @@ async function main() {
       KINPATH_DB_PASSWORD: dbConfig.password,
       KINPATH_DB_NAME: database,
       KINPATH_SCORING_THREADS: args.threads,
+      KINPATH_LOG_FORMAT: 'text',
     };
     t0 = performance.now();
     for (let i = 0; i < PROCESSES; i++) {

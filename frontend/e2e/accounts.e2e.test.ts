@@ -35,7 +35,7 @@ async function invitationLink(address: string): Promise<string> {
   throw new Error(`no invitation reached ${address}`);
 }
 
-describe('accounts: invite, accept, sign in; the audit trail', () => {
+describe('accounts: invite, accept, sign in; the audit trail', { timeout: 150_000 }, () => {
   let browser: Browser;
   const otherHosts: string[] = [];
 

@@ -1,13 +1,7 @@
 import { readFileSync } from 'node:fs';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import {
-  baseUrl,
-  expectAccessible,
-  forbidOtherHosts,
-  launchBrowser,
-  signIn,
-} from './support/browser';
+import { expectAccessible, forbidOtherHosts, launchBrowser, signIn } from './support/browser';
 
 /** The demo head of CMP: the outlook, its backtest and the CSV export, end to end. */
 describe('demand outlook of the head of CMP', () => {

@@ -28,6 +28,7 @@ export class AuditService {
       target: entry.target ?? null,
       detail: entry.detail ?? {},
     });
-    await repository.save(event, { reload: false });
+    // One INSERT: by default save() wraps each row in a transaction of its own.
+    await repository.save(event, { reload: false, transaction: false });
   }
 }

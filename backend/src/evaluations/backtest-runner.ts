@@ -24,6 +24,8 @@ export function runBacktestInWorker(
   }
   return new Promise((resolve, reject) => {
     const worker = new Worker(WORKER_PATH, { workerData: input });
+    // A stopping server need not wait for a backtest; at the next start it is marked failed.
+    worker.unref();
     let output: BacktestOutput | null = null;
     worker.on('message', (message: WorkerMessage) => {
       if (message.type === 'progress') onProgress(message.done, message.total);

@@ -161,9 +161,10 @@ export class ScoringRunsService implements OnApplicationBootstrap, OnApplication
     if (!force) {
       const same: RunRow[] = await this.dataSource.query(
         `SELECT * FROM scoring_runs WHERE term = $1 AND settings_version = $2 AND data_stamp = $3
-           AND status IN ('queued', 'scoring', 'finalising', 'done')
+           AND (status = 'done' OR (status = ANY($4) AND created_at > now() - interval '2 hours'))
          ORDER BY created_at DESC LIMIT 1`,
-        [term, version, stamp],
+        // A run still unfinished after two hours lost its worker; it no longer holds a new one back.
+        [term, version, stamp, ACTIVE],
       );
       if (same[0]) return toSummary(same[0]);
     }

@@ -16,8 +16,15 @@ async function main(): Promise<void> {
   const db = loadDatabaseConfig();
   const quiet =
     process.env.KINPATH_LOG_LEVEL === 'warn' || process.env.KINPATH_LOG_LEVEL === 'error';
+  // The server's log format: one JSON object per line unless KINPATH_LOG_FORMAT=text.
+  const json = (process.env.KINPATH_LOG_FORMAT ?? 'json').toLowerCase() !== 'text';
   const log = (message: string) => {
-    if (!quiet) process.stdout.write(`kinpath scoring worker ${process.pid}: ${message}\n`);
+    if (quiet) return;
+    process.stdout.write(
+      json
+        ? `${JSON.stringify({ level: 'log', pid: process.pid, timestamp: Date.now(), message, context: 'ScoringWorker' })}\n`
+        : `kinpath scoring worker ${process.pid}: ${message}\n`,
+    );
   };
   const pool = new Pool({
     host: db.host,

@@ -2,6 +2,7 @@ import type { GradeScale, UpdateGradeScaleResponse } from '@kinpath/contracts';
 import { BadRequestException, ConflictException, Injectable } from '@nestjs/common';
 import { InjectDataSource } from '@nestjs/typeorm';
 import type { ClientBase } from 'pg';
+import { Subject } from 'rxjs';
 import type { DataSource } from 'typeorm';
 import type { AuditAction } from '../audit/audit-actions';
 import { AuditService } from '../audit/audit.service';
@@ -14,6 +15,10 @@ export const GRADE_SCALE_AUDIT = 'grade_scale.updated';
 
 @Injectable()
 export class GradeScaleService {
+  private readonly changedSubject = new Subject<void>();
+  /** After a saved change: the grade points of stored records may differ now. */
+  readonly changed = this.changedSubject.asObservable();
+
   constructor(
     @InjectDataSource() private readonly dataSource: DataSource,
     private readonly audit: AuditService,
@@ -102,6 +107,7 @@ export class GradeScaleService {
         runner.manager,
       );
       await runner.commitTransaction();
+      this.changedSubject.next();
     } catch (error) {
       if (runner.isTransactionActive) await runner.rollbackTransaction().catch(() => undefined);
       throw error;

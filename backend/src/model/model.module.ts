@@ -1,5 +1,6 @@
 import { Module } from '@nestjs/common';
 import { CatalogueService } from '../catalogue/catalogue.service';
+import { GradeScaleModule } from '../grade-scale/grade-scale.module';
 import { ImportsModule } from '../imports/imports.module';
 import { SetupModule } from '../setup/setup.module';
 import { TermDataModule } from '../term-data/term-data.module';
@@ -14,7 +15,7 @@ import { ModelService } from './model.service';
  * modules start first, and the first build should see the demo's term data.
  */
 @Module({
-  imports: [TermDataModule, ImportsModule, SetupModule],
+  imports: [TermDataModule, ImportsModule, SetupModule, GradeScaleModule],
   controllers: [ModelSettingsController],
   // The catalogue's own service, for its definition of the current and next term.
   providers: [ModelService, ModelSettingsService, ModelEvents, CatalogueService],

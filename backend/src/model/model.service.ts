@@ -12,6 +12,7 @@ import type { ClientBase } from 'pg';
 import { to as copyTo } from 'pg-copy-streams';
 import type { Subscription } from 'rxjs';
 import type { DataSource } from 'typeorm';
+import { GradeScaleService } from '../grade-scale/grade-scale.service';
 import { CatalogueService } from '../catalogue/catalogue.service';
 import { GradeScaleModel, loadGradeScale } from '../grade-scale/grade-scale.model';
 import { ImportsService } from '../imports/imports.service';
@@ -59,6 +60,7 @@ export class ModelService implements OnApplicationBootstrap, OnModuleDestroy {
     private readonly termData: TermDataEvents,
     private readonly settings: ModelSettingsService,
     private readonly events: ModelEvents,
+    private readonly gradeScale: GradeScaleService,
   ) {}
 
   onApplicationBootstrap(): void {
@@ -67,6 +69,8 @@ export class ModelService implements OnApplicationBootstrap, OnModuleDestroy {
         this.announced.add(event.importId);
         void this.rebuild();
       }),
+      // Re-derived grade points change every grade value the model holds.
+      this.gradeScale.changed.subscribe(() => void this.rebuild()),
       this.events.settingsChanged$.subscribe(() => {
         if (!this.snapshot) return;
         this.warm(this.snapshot).catch((error: Error) =>

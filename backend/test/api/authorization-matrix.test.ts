@@ -61,6 +61,7 @@ export const ACCESS: Record<string, Rule> = {
   'GET /api/model/settings/versions': { access: REGISTRAR },
   'POST /api/model/settings/versions/{version}/restore': { access: REGISTRAR },
   'POST /api/model/evaluations': { access: REGISTRAR },
+  'GET /api/model/evaluations': { access: REGISTRAR },
   'GET /api/model/evaluations/{id}': { access: REGISTRAR },
 
   'POST /api/students/lookup': { access: ADVISING },
@@ -77,6 +78,10 @@ export const ACCESS: Record<string, Rule> = {
 
   'GET /api/forecasts': { access: OUTLOOK, departmentScoped: true },
   'GET /api/forecasts/backtest': { access: OUTLOOK, departmentScoped: true },
+  'GET /api/forecasts/export': { access: OUTLOOK, departmentScoped: true },
+  'GET /api/forecasts/about': { access: OUTLOOK },
+  'GET /api/forecasts/scoring': { access: REGISTRAR },
+  'POST /api/forecasts/scoring': { access: REGISTRAR },
 };
 
 /** Plausible values for path parameters: well-formed, naming nothing that exists. */

@@ -8,7 +8,8 @@ import {
   BASIS_NAMES,
   CONFIDENCE_NAMES,
   DEFAULT_SCALES,
-  fitOf,
+  fitScore,
+  fitSource,
   Scorer,
   untakenCourses,
 } from './score';
@@ -172,8 +173,8 @@ export function scoreChunk(
     for (let p = 0; p < t.length; p++) {
       const g = gi >= 0 ? chunk.value[gi][o + p] : NaN;
       const s = si >= 0 ? chunk.value[si][o + p] : NaN;
-      const [fit, from] = fitOf(g, s, job.settings.alpha, gs, ss);
-      chunk.fit[o + p] = fit;
+      const from = fitSource(g, s);
+      chunk.fit[o + p] = fitScore(g, s, job.settings.alpha, gs, ss);
       chunk.fitConf[o + p] =
         from === 0
           ? Math.min(chunk.conf[gi][o + p], chunk.conf[si][o + p])

@@ -76,12 +76,14 @@ export function baselineValue(d: SignalData, a: number, j: number, scale?: Scale
 const WALK_FIRST_MIN = 20_000;
 /**
  * Cost of a walked row entry relative to a scanned column entry, for the choice of where the
- * walk stops.
+ * walk stops. A walked entry is a read of a compact row; a scanned course also pays for a
+ * selection and for reading its k neighbours' w and deviations at scattered places, so
+ * (measured at 50,000 and 200,000 students) walking about five times as far is cheaper.
  */
-const WALK_COST = 1;
+const WALK_COST = Number(process.env.KP_WALK_COST ?? 0.2);
 /** Fewest and most weight buckets for the best-first order of candidates. */
 const MIN_BUCKETS = 256;
-const MAX_BUCKETS = 65_536;
+const MAX_BUCKETS = 65_535;
 /** The bucket key of a student who is no candidate: after every bucket. */
 const NO_KEY = 65_535;
 /** A neighbourhood slot: w(a, i) and r_ij - m_i, side by side. */
@@ -112,7 +114,7 @@ export class Scorer {
   fill: Record<Signal, Int32Array>;
   k = 0;
   /** Work of the last call (entries visited), for benchmarks. */
-  stats = { candidates: 0, walked: 0, scanned: 0 };
+  stats = { candidates: 0, walked: 0, scanned: 0, rescans: 0 };
   /** Neighbourhoods of the last call: target t -> records [t*k, t*k + fill), best first. */
   private slots: Record<Signal, Float64Array>;
   private cap = 0;
@@ -131,6 +133,8 @@ export class Scorer {
   private readonly bucketStart: Int32Array;
   private bufQ = new Int32Array(0);
   private bufK = new Int32Array(0);
+  /** Candidates the last walk took (a prefix of `sorted`). */
+  private walkedTo = 0;
 
   constructor(readonly model: Model) {
     this.ws = new SimilarityWorkspace(model);
@@ -143,6 +147,20 @@ export class Scorer {
     this.out = { grade: allocScores(0), satisfaction: allocScores(0) };
     this.slots = { grade: new Float64Array(0), satisfaction: new Float64Array(0) };
     this.fill = { grade: new Int32Array(0), satisfaction: new Int32Array(0) };
+  }
+
+  /**
+   * What the last call predicted target t from in signal s: w(a, i) and r_ij - m_i of each
+   * neighbour, best first (for audits and tests).
+   */
+  neighbourhood(s: Signal, t: number): { w: number[]; deviation: number[] } {
+    const out = { w: [] as number[], deviation: [] as number[] };
+    const slots = this.slots[s];
+    for (let r = 0; r < this.fill[s][t]; r++) {
+      out.w.push(slots[(t * this.k + r) * SLOT]);
+      out.deviation.push(slots[(t * this.k + r) * SLOT + 1]);
+    }
+    return out;
   }
 
   /**
@@ -225,6 +243,7 @@ export class Scorer {
     this.stats.candidates = nc;
     this.stats.walked = 0;
     this.stats.scanned = 0;
+    this.stats.rescans = 0;
 
     let keyed = false;
     if (nc > 0 && remainingScan > 0) {
@@ -245,6 +264,7 @@ export class Scorer {
     if (remainingScan > 0) {
       if (!keyed) this.key.fill(0);
       const rank = model.studentRank;
+      const S = model.studentKeys.length;
       for (const s of sig) {
         const bit = bitOf(s);
         const fill = this.fill[s];
@@ -256,17 +276,28 @@ export class Scorer {
           if (j < 0) continue;
           const c = code[j];
           if (c >> 2 !== t + 1 || (c & bit) === 0) continue;
-          fill[t] = scanTopK(
+          const from = d.colPtr[j];
+          const to = d.colPtr[j + 1];
+          // Candidates have keys below NO_KEY; without buckets every key is 0 and every entry
+          // is judged by w. With buckets, first try a bar at the key where about 2(k - fill)
+          // more of the course's students are expected, were they spread like everyone.
+          let bar = keyed ? NO_KEY - 1 : 0;
+          const rest = to - from - fill[t];
+          if (keyed && rest > k) {
+            const R = this.walkedTo;
+            const P = R + Math.ceil(((2 * (k - fill[t]) + 8) * (S - R)) / rest);
+            if (P < nc) bar = this.key[this.sorted[P - 1]];
+          }
+          let n = scanTopK(
             d.colStudent,
             dev,
-            d.colPtr[j],
-            d.colPtr[j + 1],
+            from,
+            to,
             a,
             minSim,
             w,
             this.key,
-            // Without buckets every key is 0 and every entry is judged by w.
-            keyed ? NO_KEY : 0,
+            bar,
             rank,
             k,
             this.bufQ,
@@ -274,7 +305,30 @@ export class Scorer {
             slots,
             t * k,
           );
-          this.stats.scanned += d.colPtr[j + 1] - d.colPtr[j];
+          this.stats.scanned += to - from;
+          if (n < k && bar < NO_KEY - 1 && keyed) {
+            // Too few above the guessed bar: the answer needs everyone.
+            n = scanTopK(
+              d.colStudent,
+              dev,
+              from,
+              to,
+              a,
+              minSim,
+              w,
+              this.key,
+              NO_KEY - 1,
+              rank,
+              k,
+              this.bufQ,
+              this.bufK,
+              slots,
+              t * k,
+            );
+            this.stats.scanned += to - from;
+            this.stats.rescans++;
+          }
+          fill[t] = n;
         }
       }
     }
@@ -338,6 +392,7 @@ export class Scorer {
       for (let c = start; c < end; c++) {
         if (walked * WALK_COST >= remainingScan) {
           this.stats.walked = walked;
+          this.walkedTo = c;
           return remainingScan;
         }
         const i = sorted[c];
@@ -783,7 +838,9 @@ function predictFromSlots(
  * w; w and rank are read only when keys are equal. Entries before the bar go to a buffer of
  * about 2k (column positions and keys); when it fills, a selection keeps the best k and the
  * bar becomes the worst of them, so most entries cost one small read and one comparison.
- * `startKey` is NO_KEY when candidates have bucket keys (others NO_KEY), 0 when all keys are 0.
+ * `startKey` is the first bar's key when candidates have bucket keys (others NO_KEY): the
+ * answer is exact when at least k entries pass it (NO_KEY - 1 lets every candidate pass); 0
+ * when all keys are 0.
  * Returns the neighbourhood size.
  */
 function scanTopK(
@@ -806,9 +863,10 @@ function scanTopK(
   if (k === 0) return 0;
   const size = bq.length;
   let n = 0;
-  // The bar (tk, tw, tr); at the start anything keyed passes, and at startKey w > minSim.
+  // The bar (tk, tw, tr). Keyed, every key up to startKey passes (keys below NO_KEY belong to
+  // candidates); with all keys 0, entries pass on w > minSim.
   let tk = startKey;
-  let tw = minSim;
+  let tw = startKey === 0 ? minSim : -Infinity;
   let tr = -1;
   for (let q = from; q < to; q++) {
     const i = colStudent[q];
@@ -867,6 +925,7 @@ function after(
   rank: Int32Array,
 ): boolean {
   if (k1 !== k2) return k1 > k2;
+  if (q1 === q2) return false;
   const i1 = colStudent[q1];
   const i2 = colStudent[q2];
   const w1 = w[i1];
@@ -943,16 +1002,36 @@ export function fitOf(
   gradeScale: Scale,
   satScale: Scale,
 ): [number, number] {
+  return [
+    fitScore(grade, satisfaction, alpha, gradeScale, satScale),
+    fitSource(grade, satisfaction),
+  ];
+}
+
+/** fitOf's value without an array (batch scoring calls it for every cell). */
+export function fitScore(
+  grade: number,
+  satisfaction: number,
+  alpha: number,
+  gradeScale: Scale,
+  satScale: Scale,
+): number {
   const g =
     grade === grade ? unit((grade - gradeScale.min) / (gradeScale.max - gradeScale.min)) : NaN;
   const s =
     satisfaction === satisfaction
       ? unit((satisfaction - satScale.min) / (satScale.max - satScale.min))
       : NaN;
-  if (g === g && s === s) return [100 * (alpha * g + (1 - alpha) * s), 0];
-  if (g === g) return [100 * g, 1];
-  if (s === s) return [100 * s, 2];
-  return [NaN, -1];
+  if (g === g && s === s) return 100 * (alpha * g + (1 - alpha) * s);
+  if (g === g) return 100 * g;
+  if (s === s) return 100 * s;
+  return NaN;
+}
+
+/** fitOf's source: 0 both, 1 grade, 2 satisfaction, -1 none. */
+export function fitSource(grade: number, satisfaction: number): number {
+  if (grade === grade) return satisfaction === satisfaction ? 0 : 1;
+  return satisfaction === satisfaction ? 2 : -1;
 }
 
 function unit(x: number): number {

@@ -33,7 +33,8 @@ export class JwtStrategy extends PassportStrategy(Strategy) {
   ) {
     super({
       jwtFromRequest: ExtractJwt.fromAuthHeaderAsBearerToken(),
-      secretOrKey: secret.value,
+      // jsonwebtoken accepts a KeyObject here; passport-jwt's types predate that.
+      secretOrKey: secret.verificationKey as unknown as Buffer,
       algorithms: [JWT_ALGORITHM],
       ignoreExpiration: false,
       passReqToCallback: true,

@@ -1,14 +1,17 @@
 import { afterEach, describe, expect, it } from 'vitest';
-import { screen, waitFor, within } from '@testing-library/react';
+import { configure, screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { STUDENT_NOT_FOUND_MESSAGE } from '@kinpath/contracts';
 import { renderApp, signInAs } from '../../test/render';
 import { fakeAdvisingApi, REF, STUDENT, STUDENT_NUMBER } from './test/fixtures';
 
+// The whole app renders in jsdom; screens that wait on the (fake) API get time on a busy machine.
+configure({ asyncUtilTimeout: 10_000 });
+
 let api: ReturnType<typeof fakeAdvisingApi> | undefined;
 afterEach(() => api?.restore());
 
-describe('student lookup', () => {
+describe('student lookup', { timeout: 30_000 }, () => {
   it('says only that there are no records for an unknown number', async () => {
     api = fakeAdvisingApi({
       'POST /students/lookup': () => ({

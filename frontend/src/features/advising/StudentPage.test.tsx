@@ -1,9 +1,12 @@
 import { afterEach, describe, expect, it } from 'vitest';
-import { screen, waitFor, within } from '@testing-library/react';
+import { configure, screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { ESTIMATE_CAUTION_TITLE } from '@kinpath/contracts';
 import { renderApp, signInAs } from '../../test/render';
 import { fakeAdvisingApi, REF } from './test/fixtures';
+
+// The whole app renders in jsdom; screens that wait on the (fake) API get time on a busy machine.
+configure({ asyncUtilTimeout: 10_000 });
 
 let api: ReturnType<typeof fakeAdvisingApi> | undefined;
 afterEach(() => api?.restore());
@@ -26,7 +29,7 @@ const courseCodes = (table: HTMLElement) =>
   bodyRows(table).map((r) => within(r).getAllByRole('cell')[1].textContent);
 
 // The whole student page renders in jsdom; role queries over it take a few seconds.
-describe('student page', { timeout: 20_000 }, () => {
+describe('student page', { timeout: 60_000 }, () => {
   it('shows the header from the records, with one h1 and the cautions', async () => {
     await openStudent();
     expect(screen.getAllByRole('heading', { level: 1 })).toHaveLength(1);

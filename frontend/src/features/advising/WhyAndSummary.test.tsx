@@ -1,8 +1,11 @@
 import { afterEach, describe, expect, it } from 'vitest';
-import { screen, waitFor, within } from '@testing-library/react';
+import { configure, screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { renderApp, signInAs } from '../../test/render';
 import { explanation, fakeAdvisingApi, REF } from './test/fixtures';
+
+// The whole app renders in jsdom; screens that wait on the (fake) API get time on a busy machine.
+configure({ asyncUtilTimeout: 10_000 });
 
 let api: ReturnType<typeof fakeAdvisingApi> | undefined;
 afterEach(() => api?.restore());
@@ -19,7 +22,7 @@ async function openStudent(overrides: Parameters<typeof fakeAdvisingApi>[0] = {}
 }
 
 // The whole student page renders in jsdom; role queries over it take a few seconds.
-describe('why panel', { timeout: 20_000 }, () => {
+describe('why panel', { timeout: 60_000 }, () => {
   it('explains in plain words, then names the method', async () => {
     const { table, user } = await openStudent();
     await user.click(within(table).getByRole('button', { name: /^Why\? CMP 3110/ }));
@@ -82,7 +85,7 @@ describe('why panel', { timeout: 20_000 }, () => {
   });
 });
 
-describe('send summary', { timeout: 20_000 }, () => {
+describe('send summary', { timeout: 60_000 }, () => {
   async function shortlistTwoAndOpen() {
     const opened = await openStudent();
     const { table, user } = opened;

@@ -11,6 +11,8 @@ import { installFakeApi, type FakeHandler } from '../../test/fake-api';
 import { renderApp, renderWithProviders, signInAs } from '../../test/render';
 import { ValidationReport } from './components/ValidationReport';
 import { commitConfirmation, rollbackConfirmation, uploadFailure } from './messages';
+import { awaitingModel } from './words';
+import { modelCaughtUp } from './components/ImportHistory';
 
 // Whole pages in jsdom answer slowly on a busy machine; wait longer than the default second.
 configure({ asyncUtilTimeout: 8000 });
@@ -312,7 +314,7 @@ describe('the upload form', { timeout: 40_000 }, () => {
   });
 });
 
-describe('the validation report', () => {
+describe('the validation report', { timeout: 40_000 }, () => {
   const bodyRows = () =>
     within(screen.getByRole('table', { name: 'Report' }))
       .getAllByRole('row')
@@ -509,6 +511,29 @@ describe('the imports page', { timeout: 40_000 }, () => {
     });
     expect(bar).toHaveAttribute('aria-valuenow', '50');
     expect(bar).toHaveAttribute('aria-valuetext', '600 of 1,204 rows');
+  });
+
+  it('waits for the estimates to catch up only after a recent commit or rollback', () => {
+    const now = Date.parse('2026-11-30T09:25:00Z');
+    const committed = summary({ status: 'committed', committedAt: '2026-11-30T09:20:00Z' });
+    expect(awaitingModel(committed, now)).toBe(true);
+    expect(awaitingModel({ ...committed, modelRefreshedAt: '2026-11-30T09:21:00Z' }, now)).toBe(
+      false,
+    );
+    // A rollback needs a rebuild after the rollback, not the one after the commit.
+    const rolledBack = {
+      ...committed,
+      status: 'rolled_back' as const,
+      modelRefreshedAt: '2026-11-30T09:21:00Z',
+      rolledBackAt: '2026-11-30T09:24:00Z',
+    };
+    expect(awaitingModel(rolledBack, now)).toBe(true);
+    expect(modelCaughtUp(rolledBack)).toBe('Not yet');
+    expect(modelCaughtUp({ ...rolledBack, modelRefreshedAt: '2026-11-30T09:24:30Z' })).toMatch(
+      /^Yes, \d{4}-\d{2}-\d{2} \d{2}:\d{2}$/,
+    );
+    expect(awaitingModel(committed, now + 60 * 60_000)).toBe(false);
+    expect(awaitingModel(summary(), now)).toBe(false);
   });
 
   it('marks Imports, not the overview, as the current page', async () => {

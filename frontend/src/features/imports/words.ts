@@ -64,6 +64,38 @@ export function isRunning(status: ImportStatus | undefined): boolean {
   return status !== undefined && RUNNING_STATUSES.includes(status);
 }
 
+/** How long after a commit or rollback the page keeps asking whether the estimates caught up. */
+const MODEL_WAIT_MS = 10 * 60_000;
+
+/**
+ * True while the estimates have not yet been rebuilt after this import's last change (commit
+ * or rollback), for a while after that change.
+ */
+export function awaitingModel(summary: ModelFields, now = Date.now()): boolean {
+  const changedAt = lastChange(summary);
+  if (!changedAt || now - new Date(changedAt).getTime() > MODEL_WAIT_MS) return false;
+  return !modelCaughtUpWith(summary);
+}
+
+type ModelFields = Pick<
+  ImportSummary,
+  'status' | 'committedAt' | 'rolledBackAt' | 'modelRefreshedAt'
+>;
+
+/** When the import last changed the term data: its commit, or its rollback. */
+function lastChange(summary: ModelFields): string | null {
+  if (summary.status === 'committed') return summary.committedAt;
+  if (summary.status === 'rolled_back') return summary.rolledBackAt;
+  return null;
+}
+
+/** Whether the estimates were rebuilt after the import's last change (a rollback too). */
+export function modelCaughtUpWith(summary: ModelFields): boolean {
+  const changedAt = lastChange(summary);
+  if (!changedAt || !summary.modelRefreshedAt) return false;
+  return new Date(summary.modelRefreshedAt).getTime() >= new Date(changedAt).getTime();
+}
+
 const COUNT = new Intl.NumberFormat('en-US');
 
 export function formatCount(value: number): string {

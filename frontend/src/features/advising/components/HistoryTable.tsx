@@ -1,4 +1,4 @@
-import { Fragment, useMemo, useState } from 'react';
+import { useMemo, useState } from 'react';
 import {
   createColumnHelper,
   flexRender,
@@ -101,39 +101,40 @@ export function HistoryTable({
             </TableRow>
           ))}
         </TableHead>
-        <TableBody>
-          {groups.map(([term, termRows]) => (
-            <Fragment key={term}>
-              <TableRow sx={{ bgcolor: 'action.hover', breakInside: 'avoid' }}>
-                <TableCell
-                  component="th"
-                  scope="rowgroup"
-                  colSpan={columns.length}
-                  sx={{ fontWeight: 700 }}
-                >
-                  {term} · {plural(termRows.length, 'course')}
-                </TableCell>
+        {/* One body per term, headed by a row header that names the term for every row in it. */}
+        {groups.map(([term, termRows]) => (
+          <TableBody key={term}>
+            <TableRow sx={{ bgcolor: 'action.hover', breakInside: 'avoid' }}>
+              <TableCell
+                component="th"
+                scope="rowgroup"
+                colSpan={columns.length}
+                sx={{ fontWeight: 700 }}
+              >
+                {term} · {plural(termRows.length, 'course')}
+              </TableCell>
+            </TableRow>
+            {termRows.map((row) => (
+              <TableRow key={row.id}>
+                {row.getVisibleCells().map((cell) => (
+                  <TableCell
+                    key={cell.id}
+                    align={cell.column.columnDef.meta?.numeric ? 'right' : 'left'}
+                  >
+                    {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                  </TableCell>
+                ))}
               </TableRow>
-              {termRows.map((row) => (
-                <TableRow key={row.id}>
-                  {row.getVisibleCells().map((cell) => (
-                    <TableCell
-                      key={cell.id}
-                      align={cell.column.columnDef.meta?.numeric ? 'right' : 'left'}
-                    >
-                      {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                    </TableCell>
-                  ))}
-                </TableRow>
-              ))}
-            </Fragment>
-          ))}
-          {rows.length === 0 ? (
+            ))}
+          </TableBody>
+        ))}
+        {rows.length === 0 ? (
+          <TableBody>
             <TableRow>
               <TableCell colSpan={columns.length}>No course attempts on record.</TableCell>
             </TableRow>
-          ) : null}
-        </TableBody>
+          </TableBody>
+        ) : null}
       </Table>
     </TableContainer>
   );

@@ -7,8 +7,10 @@ import Divider from '@mui/material/Divider';
 import Drawer from '@mui/material/Drawer';
 import IconButton from '@mui/material/IconButton';
 import Typography from '@mui/material/Typography';
+import useMediaQuery from '@mui/material/useMediaQuery';
 import Close from '@mui/icons-material/Close';
 import type { ElectiveEstimate, ElectiveExplanation, SignalExplanation } from '@kinpath/contracts';
+import { KINPATH_COLOURS } from '../../../app/theme';
 import { httpStatus } from '../../../lib/api-client';
 import { useExplanation } from '../api/students';
 import { BASIS_DESCRIPTIONS, fixed, plural } from '../format';
@@ -49,6 +51,8 @@ function OutcomeChart({
   s: SignalExplanation;
 }) {
   const headingId = useId();
+  // Bars need 3:1 against the panel in either colour scheme (WCAG 1.4.11).
+  const dark = useMediaQuery('(prefers-color-scheme: dark)');
   if (!s.outcomes) {
     return (
       <Alert severity="info" variant="outlined" sx={{ mt: 1 }}>
@@ -77,7 +81,13 @@ function OutcomeChart({
           margin={{ top: 8, right: 8, bottom: 4, left: 4 }}
           xAxis={[{ scaleType: 'band', data: s.outcomes.map((o) => o.label) }]}
           yAxis={[{ tickMinStep: 1, width: 28 }]}
-          series={[{ data: s.outcomes.map((o) => o.count), label: 'Kin', color: '#1F5C58' }]}
+          series={[
+            {
+              data: s.outcomes.map((o) => o.count),
+              label: 'Kin',
+              color: dark ? KINPATH_COLOURS.pineLight : KINPATH_COLOURS.pine,
+            },
+          ]}
           slots={{ tooltip: () => null }}
         />
       </Box>

@@ -10,7 +10,7 @@ import type {
   SaveImportMappingRequest,
 } from '@kinpath/contracts';
 import { apiClient } from '../../../lib/api-client';
-import { isRunning } from '../words';
+import { awaitingModel, isRunning } from '../words';
 
 export const importsQueryKey = ['imports'] as const;
 const importQueryKey = (id: string) => ['imports', 'one', id] as const;
@@ -27,14 +27,24 @@ export function useImports() {
   });
 }
 
-/** One import; asked again every second while its job runs, then left alone. */
+/** How often the page asks whether the estimates caught up after a commit or rollback. */
+export const MODEL_POLL_INTERVAL_MS = 3000;
+
+/**
+ * One import; asked again every second while its job runs, then every few seconds until the
+ * estimates have caught up with it, then left alone.
+ */
 export function useImport(id: string | null) {
   return useQuery({
     queryKey: importQueryKey(id ?? ''),
     queryFn: async () => (await apiClient.get<ImportSummary>(`/imports/${id}`)).data,
     enabled: id !== null,
     staleTime: 0,
-    refetchInterval: (query) => (isRunning(query.state.data?.status) ? POLL_INTERVAL_MS : false),
+    refetchInterval: (query) => {
+      const summary = query.state.data;
+      if (isRunning(summary?.status)) return POLL_INTERVAL_MS;
+      return summary && awaitingModel(summary) ? MODEL_POLL_INTERVAL_MS : false;
+    },
   });
 }
 

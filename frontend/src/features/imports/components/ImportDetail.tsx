@@ -227,14 +227,16 @@ export function ImportDetail({ id }: { id: string }) {
   const [pending, setPending] = useState<Pending>(null);
   const status: ImportStatus | undefined = query.data?.status;
 
-  // When a job finishes, the history, terms and catalogue are read again.
-  const lastStatus = useRef(status);
+  // When a job finishes, or the estimates catch up, the history, terms and catalogue are read again.
+  const modelRefreshedAt = query.data?.modelRefreshedAt;
+  const last = useRef({ status, modelRefreshedAt });
   useEffect(() => {
-    if (lastStatus.current && status && lastStatus.current !== status && !isRunning(status)) {
-      void refreshAfterChange(queryClient);
-    }
-    lastStatus.current = status;
-  }, [status, queryClient]);
+    const before = last.current;
+    const finished = before.status && status && before.status !== status && !isRunning(status);
+    const caughtUp = before.status && modelRefreshedAt !== before.modelRefreshedAt;
+    if (finished || caughtUp) void refreshAfterChange(queryClient);
+    last.current = { status, modelRefreshedAt };
+  }, [status, modelRefreshedAt, queryClient]);
 
   if (query.isPending) {
     return (

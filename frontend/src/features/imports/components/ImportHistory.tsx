@@ -25,7 +25,7 @@ import TableSortLabel from '@mui/material/TableSortLabel';
 import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
 import { IMPORT_KINDS, type ImportSummary } from '@kinpath/contracts';
-import { KIND_LABELS, dateTime, duration, formatCount } from '../words';
+import { KIND_LABELS, dateTime, duration, formatCount, modelCaughtUpWith } from '../words';
 import { StatusLabel } from './StatusLabel';
 
 const column = createColumnHelper<ImportSummary>();
@@ -35,7 +35,7 @@ const count = (value: number | null) => (value === null ? '—' : formatCount(va
 /** Whether the estimates were rebuilt after this import changed the term data. */
 export function modelCaughtUp(summary: ImportSummary): string {
   if (summary.status !== 'committed' && summary.status !== 'rolled_back') return '—';
-  return summary.modelRefreshedAt ? `Yes, ${dateTime(summary.modelRefreshedAt)}` : 'Not yet';
+  return modelCaughtUpWith(summary) ? `Yes, ${dateTime(summary.modelRefreshedAt)}` : 'Not yet';
 }
 
 const columns = [
