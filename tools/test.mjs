@@ -51,7 +51,6 @@ const serverEnv = {
   KINPATH_SMTP_HOST: '127.0.0.1',
   KINPATH_SMTP_PORT: String(MAIL_DEFAULTS.test.smtpPort),
   KINPATH_STATIC_DIR: join(repoRoot, 'frontend', 'dist'),
-  KINPATH_LOG_FILE: join(dataDir, 'server.log'),
 };
 
 let server;
@@ -80,6 +79,7 @@ try {
         KINPATH_TEST_URL: `http://127.0.0.1:${port}`,
         KINPATH_TEST_SERVER_ENV: JSON.stringify(serverEnv),
         KINPATH_MAIL_DIR: mailFolder,
+        KINPATH_DEMO_DIR: demoDir,
         KINPATH_MAIL_URL: mail.url,
       },
     },

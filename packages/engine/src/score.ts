@@ -80,7 +80,7 @@ const WALK_FIRST_MIN = 20_000;
  * selection and for reading its k neighbours' w and deviations at scattered places, so
  * (measured at 50,000 and 200,000 students) walking about five times as far is cheaper.
  */
-const WALK_COST = Number(process.env.KP_WALK_COST ?? 0.2);
+const WALK_COST = 0.2;
 /** Fewest and most weight buckets for the best-first order of candidates. */
 const MIN_BUCKETS = 256;
 const MAX_BUCKETS = 65_535;

@@ -66,8 +66,8 @@ describe('term data on the landing pages', () => {
 
   it('does not guess when the term list cannot be read', async () => {
     api = installFakeApi({ 'GET /terms': () => ({ status: 500, data: {} }) });
-    signInAs('department_head');
-    renderApp('/outlook');
+    signInAs('advisor');
+    renderApp('/advising');
     expect(await screen.findByText(/could not check its term data just now/)).toBeInTheDocument();
   });
 });
