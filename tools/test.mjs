@@ -5,7 +5,7 @@
 // over every workspace, then lint. Exits non-zero on any failure.
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
-import { spawnSync } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import { ensureDatabase, pgEnv, startCluster, stopCluster } from './db.mjs';
 import { profileDir, repoRoot } from './lib/paths.mjs';
 import { aptInstall } from './lib/run.mjs';
@@ -18,6 +18,14 @@ import {
 } from './lib/setup.mjs';
 
 const started = Date.now();
+
+/** Runs a child to its end without blocking this process's event loop; resolves with its status. */
+function runAsync(command, args, options) {
+  return new Promise((resolve) => {
+    const child = spawn(command, args, options);
+    child.on('exit', (code, signal) => resolve({ status: code ?? (signal ? 1 : 0) }));
+  });
+}
 ensureDependencies();
 const { MAIL_DEFAULTS, mailDir, startMailCatcher } = await import('./mail-catcher.mjs');
 
@@ -61,7 +69,8 @@ try {
   server = await startServer(serverEnv, { stdio: ['ignore', 'ignore', 'inherit'] });
   const reportFile = join(profileDir('test'), 'vitest-report.json');
   rmSync(reportFile, { force: true });
-  const vitest = spawnSync(
+  // Asynchronous on purpose: the mail catcher runs in this process and must keep answering.
+  const vitest = await runAsync(
     process.execPath,
     [
       join(repoRoot, 'node_modules', 'vitest', 'vitest.mjs'),
