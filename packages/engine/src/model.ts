@@ -493,7 +493,18 @@ export function prepare(model: Model, settings: Settings): void {
 export interface UnionRows {
   ok: boolean;
   ptr: Int32Array;
+  /** Entries of each row, rarest course first (by `popularity`). */
   code: Int32Array;
+  /**
+   * Popularity position of each course: 0 for the course with most values in either signal
+   * (ties by course index). A walk that has filled every course above some position can stop
+   * reading a row at the first entry above it.
+   */
+  popularity: Int32Array;
+  /** Courses by popularity position, most popular first. */
+  byPopularity: Int32Array;
+  /** Each student's grade and satisfaction means side by side (one cache line for a walk). */
+  means: Float64Array;
   /** The distinct values per signal, by id. */
   gradeValues: Float64Array;
   satisfactionValues: Float64Array;
@@ -536,6 +547,9 @@ export function unionRows(model: Model): UnionRows {
       ok: false,
       ptr: sharedI32(0),
       code: sharedI32(0),
+      popularity: sharedI32(0),
+      byPopularity: sharedI32(0),
+      means: sharedF64(0),
       gradeValues: sharedF64(0),
       satisfactionValues: sharedF64(0),
     };
@@ -557,6 +571,10 @@ export function unionRows(model: Model): UnionRows {
     }
     ptr[u + 1] = ptr[u] + n;
   }
+  const C = model.courseKeys.length;
+  const count = new Int32Array(C);
+  const byPopularity = sharedI32(C);
+  const popularity = sharedI32(C);
   const code = sharedI32(ptr[S]);
   let e = 0;
   for (let u = 0; u < S; u++) {
@@ -578,12 +596,40 @@ export function unionRows(model: Model): UnionRows {
         q++;
       }
       code[e++] = x;
+      count[c]++;
     }
+  }
+  const order = Array.from({ length: C }, (_, c) => c).sort((x, y) => count[y] - count[x] || x - y);
+  for (let r = 0; r < C; r++) {
+    byPopularity[r] = order[r];
+    popularity[order[r]] = r;
+  }
+  // Rarest first within each row: insertion sort, rows are short.
+  for (let u = 0; u < S; u++) {
+    const lo = ptr[u];
+    for (let p = lo + 1; p < ptr[u + 1]; p++) {
+      const x = code[p];
+      const r = popularity[x >> 16];
+      let q = p - 1;
+      while (q >= lo && popularity[code[q] >> 16] < r) {
+        code[q + 1] = code[q];
+        q--;
+      }
+      code[q + 1] = x;
+    }
+  }
+  const means = sharedF64(2 * S);
+  for (let u = 0; u < S; u++) {
+    means[2 * u] = g.mean[u];
+    means[2 * u + 1] = s.mean[u];
   }
   model.union = {
     ok: true,
     ptr,
     code,
+    popularity,
+    byPopularity,
+    means,
     gradeValues: gi.values,
     satisfactionValues: si.values,
   };

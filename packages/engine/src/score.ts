@@ -135,6 +135,8 @@ export class Scorer {
   private bufK = new Int32Array(0);
   /** Candidates the last walk took (a prefix of `sorted`). */
   private walkedTo = 0;
+  /** Keeps the loads of touchAhead observable. */
+  sink = 0;
 
   constructor(readonly model: Model) {
     this.ws = new SimilarityWorkspace(model);
@@ -384,12 +386,24 @@ export class Scorer {
     const d1 = model.signals[sig[both ? 1 : 0]];
     const bit1 = bitOf(sig[both ? 1 : 0]);
     const code = this.code;
+    const C = model.courseKeys.length;
+    // Courses above popularity position `full` are all closed (or not targets): union rows,
+    // rarest first, are read only up to the first of them.
+    let full = 0;
+    let touchedTo = 0;
     let walked = 0;
     for (let b = 0; b < nb; b++) {
       const start = bs[b];
       const end = bs[b + 1];
       if (end - start > 1) sortByWeight(sorted, start, end - 1, w, rank);
       for (let c = start; c < end; c++) {
+        if (union && c >= touchedTo) {
+          // Touch the next candidates' rows and means in one loop of independent loads, so
+          // their cache misses overlap instead of queueing one by one in the walk.
+          touchedTo = Math.min(end, c + PREFETCH);
+          const uu = u as UnionRows;
+          this.sink = touchAhead(sorted, c, touchedTo, uu.ptr, uu.code, uu.means);
+        }
         if (walked * WALK_COST >= remainingScan) {
           this.stats.walked = walked;
           this.walkedTo = c;
@@ -399,25 +413,31 @@ export class Scorer {
         const wi = w[i];
         if (union) {
           const uu = u as UnionRows;
-          walked += uu.ptr[i + 1] - uu.ptr[i];
-          remainingScan -= walkUnion(
+          const byPop = uu.byPopularity;
+          while (full < C && (code[byPop[full]] & 3) === 0) full++;
+          const saved = walkUnion(
             uu.ptr,
             uu.code,
+            uu.popularity,
+            full,
             i,
             wi,
             code,
             k,
             uu.gradeValues,
             g.colPtr,
-            g.mean[i],
+            uu.means[2 * i],
             this.fill.grade,
             this.slots.grade,
             uu.satisfactionValues,
             sa.colPtr,
-            sa.mean[i],
+            uu.means[2 * i + 1],
             this.fill.satisfaction,
             this.slots.satisfaction,
           );
+          const read = saved % 65536;
+          walked += read;
+          remainingScan -= (saved - read) / 65536;
         } else {
           walked += d.rowPtr[i + 1] - d.rowPtr[i];
           remainingScan -= walkRow(d, i, wi, code, bit, this.fill[sig[0]], k, this.slots[sig[0]]);
@@ -444,6 +464,24 @@ export class Scorer {
     this.stats.walked = walked;
     return 0;
   }
+}
+
+const PREFETCH = 32;
+
+function touchAhead(
+  sorted: Int32Array,
+  from: number,
+  to: number,
+  uPtr: Int32Array,
+  uCode: Int32Array,
+  means: Float64Array,
+): number {
+  let sink = 0;
+  for (let c = from; c < to; c++) {
+    const i = sorted[c];
+    sink += uCode[uPtr[i]] + means[2 * i];
+  }
+  return sink;
 }
 
 function bucketCount(n: number): number {
@@ -697,6 +735,8 @@ function walkRow(
 function walkUnion(
   uPtr: Int32Array,
   uCode: Int32Array,
+  popularity: Int32Array,
+  full: number,
   i: number,
   wi: number,
   code: Int32Array,
@@ -714,9 +754,11 @@ function walkUnion(
 ): number {
   let saved = 0;
   const e = uPtr[i + 1];
-  for (let p = uPtr[i]; p < e; p++) {
+  let p = uPtr[i];
+  for (; p < e; p++) {
     const x = uCode[p];
     const j = x >> 16;
+    if (popularity[j] < full) break;
     const c = code[j];
     const hit = c & x & 3;
     if (hit === 0) continue;
@@ -746,7 +788,8 @@ function walkUnion(
     }
     code[j] = cc;
   }
-  return saved;
+  // Scan cost saved * 2^16 + entries read (a row has fewer than 2^15 entries).
+  return saved * 65536 + (p - uPtr[i]);
 }
 
 /** The mean-centred weighted prediction (or the baseline) for every target of one signal. */

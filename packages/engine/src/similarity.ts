@@ -25,8 +25,8 @@ export class SimilarityWorkspace {
   private readonly di: Float64Array;
   private readonly seen: Int32Array;
   private epoch = 0;
-  private runSlot = new Int32Array(8);
-  private runCoef = new Float64Array(8);
+  private runSlot = new Int32Array(12);
+  private runCoef = new Float64Array(12);
 
   constructor(readonly model: Model) {
     const S = model.studentKeys.length;
@@ -238,12 +238,7 @@ function denseRun(
   m: number,
 ): void {
   if (m === 0) return;
-  if (m === width && width <= 8) {
-    // The usual case (a has every dense course): slots in order, unrolled.
-    let ordered = true;
-    for (let u = 0; u < m; u++) if (runSlot[u] !== u) ordered = false;
-    if (ordered) return denseRunAll(num, dx, width, S, runCoef);
-  }
+  if (m <= UNROLLED) return denseRunUnrolled(num, dx, width, S, runSlot, runCoef, m);
   for (let i = 0, b = 0; i < S; i++, b += width) {
     let s = num[i];
     for (let u = 0; u < m; u++) s += runCoef[u] * dx[b + runSlot[u]];
@@ -251,30 +246,37 @@ function denseRun(
   }
 }
 
-function denseRunAll(
+const UNROLLED = 12;
+
+/**
+ * denseRun for runs of up to 12 courses, slots and coefficients in locals. Terms are added in
+ * run order, exactly as the loop above adds them.
+ */
+function denseRunUnrolled(
   num: Float64Array,
   dx: Float64Array,
   width: number,
   S: number,
+  r: Int32Array,
   c: Float64Array,
+  m: number,
 ): void {
-  const c0 = c[0];
-  const c1 = c[1];
-  const c2 = c[2];
-  const c3 = c[3];
-  const c4 = c[4];
-  const c5 = c[5];
-  const c6 = c[6];
-  const c7 = c[7];
+  // The scratch arrays hold at least 12 entries; those past m are never read in the loop.
+  const [r0, r1, r2, r3, r4, r5, r6, r7, r8, r9, r10, r11] = r;
+  const [c0, c1, c2, c3, c4, c5, c6, c7, c8, c9, c10, c11] = c;
   for (let i = 0, b = 0; i < S; i++, b += width) {
-    let s = num[i] + c0 * dx[b];
-    if (width > 1) s += c1 * dx[b + 1];
-    if (width > 2) s += c2 * dx[b + 2];
-    if (width > 3) s += c3 * dx[b + 3];
-    if (width > 4) s += c4 * dx[b + 4];
-    if (width > 5) s += c5 * dx[b + 5];
-    if (width > 6) s += c6 * dx[b + 6];
-    if (width > 7) s += c7 * dx[b + 7];
+    let s = num[i] + c0 * dx[b + r0];
+    if (m > 1) s += c1 * dx[b + r1];
+    if (m > 2) s += c2 * dx[b + r2];
+    if (m > 3) s += c3 * dx[b + r3];
+    if (m > 4) s += c4 * dx[b + r4];
+    if (m > 5) s += c5 * dx[b + r5];
+    if (m > 6) s += c6 * dx[b + r6];
+    if (m > 7) s += c7 * dx[b + r7];
+    if (m > 8) s += c8 * dx[b + r8];
+    if (m > 9) s += c9 * dx[b + r9];
+    if (m > 10) s += c10 * dx[b + r10];
+    if (m > 11) s += c11 * dx[b + r11];
     num[i] = s;
   }
 }
