@@ -8,6 +8,7 @@ const { join } = require('node:path');
 const { availableParallelism } = require('node:os');
 const engine = require('../dist');
 const { scorerFor } = require('../dist/api');
+const { SimilarityWorkspace } = require('../dist/similarity');
 
 const arg = (name, dflt) => {
   const i = process.argv.indexOf(`--${name}`);
@@ -67,6 +68,20 @@ async function main() {
   out(
     '  work per student (mean)',
     `${Math.round(stats.candidates / 300)} kin candidates, ${Math.round(stats.walked / 300)} entries walked, ${Math.round(stats.scanned / 300)} scanned`,
+  );
+  // The similarity step alone (w to every student), the floor under any neighbourhood choice.
+  const ws = new SimilarityWorkspace(model);
+  const simCpu = [];
+  for (let x = 0; x < 300; x++) {
+    const c = process.cpuUsage();
+    ws.compute(model.studentIndex.get(keys[(x * 7919) % keys.length]), settings, false);
+    const cpu = process.cpuUsage(c);
+    simCpu.push((cpu.user + cpu.system) / 1000);
+  }
+  simCpu.sort((a, b) => a - b);
+  out(
+    '  of which similarities to everyone',
+    `CPU p50 ${pct(simCpu, 50).toFixed(1)} ms, p95 ${pct(simCpu, 95).toFixed(1)} ms`,
   );
 
   // Batch: 40,000 active students x all electives, on every core.
