@@ -1,5 +1,12 @@
 import { useEffect, useRef } from 'react';
-import { NavLink, Link as RouterLink, Outlet, useLocation, useNavigate } from 'react-router';
+import {
+  NavLink,
+  Link as RouterLink,
+  Outlet,
+  useLocation,
+  useNavigate,
+  useNavigation,
+} from 'react-router';
 import AppBar from '@mui/material/AppBar';
 import Box from '@mui/material/Box';
 import Button from '@mui/material/Button';
@@ -12,6 +19,7 @@ import { ROLE_LABELS, type Role, type UserSummary } from '@kinpath/contracts';
 import { Brand } from '../components/Brand';
 import { MAIN_CONTENT_ID, SkipLink } from '../components/SkipLink';
 import { useAuth } from '../features/auth/AuthProvider';
+import { PageLoading } from './PageLoad';
 import { navigationFor } from './pages';
 import { KINPATH_COLOURS } from './theme';
 
@@ -127,6 +135,8 @@ export function AppShell() {
   const { pathname } = useLocation();
   const mainRef = useRef<HTMLElement>(null);
   const firstPath = useRef(pathname);
+  // Pages have no loaders, so the router is loading only while a page's code is fetched.
+  const loadingPage = useNavigation().state === 'loading';
 
   // After client-side navigation, move focus to the new page so screen readers announce it.
   useEffect(() => {
@@ -149,8 +159,21 @@ export function AppShell() {
           id={MAIN_CONTENT_ID}
           ref={mainRef}
           tabIndex={-1}
-          sx={{ flex: 1, minWidth: 0, px: { xs: 2, md: 4 }, py: { xs: 2, md: 3 }, outline: 'none' }}
+          aria-busy={loadingPage || undefined}
+          sx={{
+            flex: 1,
+            minWidth: 0,
+            px: { xs: 2, md: 4 },
+            py: { xs: 2, md: 3 },
+            outline: 'none',
+            position: 'relative',
+          }}
         >
+          {loadingPage ? (
+            <Box sx={{ position: 'absolute', top: 0, left: 0, right: 0 }}>
+              <PageLoading />
+            </Box>
+          ) : null}
           <Outlet />
         </Box>
       </Box>

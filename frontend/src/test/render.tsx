@@ -1,5 +1,5 @@
 import { render } from '@testing-library/react';
-import { RouterProvider, createMemoryRouter } from 'react-router';
+import { RouterProvider, createMemoryRouter, type RouteObject } from 'react-router';
 import type { ReactElement } from 'react';
 import type { Role, UserSummary } from '@kinpath/contracts';
 import { AppProviders } from '../app/App';
@@ -53,9 +53,25 @@ function testQueryClient() {
   return client;
 }
 
+/**
+ * The routes with every page's code fetched up front, so that a test starts from the app as it
+ * is once its pages have loaded (`lazy-pages.test.tsx` covers the loading itself).
+ */
+async function loaded(tree: RouteObject[]): Promise<RouteObject[]> {
+  return Promise.all(
+    tree.map(async ({ lazy, children, ...route }) => ({
+      ...route,
+      ...(typeof lazy === 'function' ? await lazy() : {}),
+      ...(children ? { children: await loaded(children) } : {}),
+    })),
+  ) as Promise<RouteObject[]>;
+}
+
+const LOADED_ROUTES = await loaded(routes);
+
 /** The whole app at `path`, with the real routes, in memory. */
 export function renderApp(path: string) {
-  const router = createMemoryRouter(routes, { initialEntries: [path] });
+  const router = createMemoryRouter(LOADED_ROUTES, { initialEntries: [path] });
   const result = render(
     <AppProviders queryClient={testQueryClient()}>
       <RouterProvider router={router} />

@@ -1,7 +1,6 @@
 import { useMemo, useState } from 'react';
 import {
   createColumnHelper,
-  flexRender,
   getCoreRowModel,
   getSortedRowModel,
   useReactTable,
@@ -11,17 +10,11 @@ import Box from '@mui/material/Box';
 import Button from '@mui/material/Button';
 import Checkbox from '@mui/material/Checkbox';
 import FormControlLabel from '@mui/material/FormControlLabel';
-import Paper from '@mui/material/Paper';
 import Switch from '@mui/material/Switch';
-import Table from '@mui/material/Table';
-import TableBody from '@mui/material/TableBody';
-import TableCell from '@mui/material/TableCell';
-import TableContainer from '@mui/material/TableContainer';
-import TableHead from '@mui/material/TableHead';
-import TableRow from '@mui/material/TableRow';
 import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
 import type { ElectiveEstimate, EstimateBasis, EstimateConfidence } from '@kinpath/contracts';
+import { DataTable } from '../../../components/DataTable';
 import { BASIS_LABELS, CONFIDENCE_LABELS, plural } from '../format';
 import {
   BasisChip,
@@ -32,7 +25,6 @@ import {
   PredictedSatisfaction,
   VisuallyHidden,
 } from './EstimateCells';
-import { SortableHeaderCell } from './SortableHeaderCell';
 
 export interface ElectiveFilters {
   department: string;
@@ -296,56 +288,27 @@ export function ElectivesTable({
             : `${shown.length} of ${plural(electives.length, 'elective')} for ${term}`}
         </Typography>
       </Box>
-      <TableContainer component={Paper} variant="outlined">
-        <Table
-          aria-labelledby={labelledBy}
-          sx={{
-            '& td, & th': { px: 1 },
-            // Two-line headers keep the numeric columns narrow enough for the row's "Why?".
-            '& thead th': { whiteSpace: 'normal', verticalAlign: 'bottom', lineHeight: 1.25 },
-          }}
-        >
-          <TableHead>
-            {table.getHeaderGroups().map((group) => (
-              <TableRow key={group.id}>
-                {group.headers.map((header) => (
-                  <SortableHeaderCell key={header.id} header={header} />
-                ))}
-              </TableRow>
-            ))}
-          </TableHead>
-          <TableBody>
-            {shown.map((row) => (
-              <TableRow
-                key={row.id}
-                hover
-                selected={shortlisted.has(row.original.courseCode)}
-                sx={row.original.eligible ? undefined : { '& td': { color: 'text.secondary' } }}
-              >
-                {row.getVisibleCells().map((cell) => (
-                  <TableCell
-                    key={cell.id}
-                    align={cell.column.columnDef.meta?.numeric ? 'right' : 'left'}
-                  >
-                    {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                  </TableCell>
-                ))}
-              </TableRow>
-            ))}
-            {shown.length === 0 ? (
-              <TableRow>
-                <TableCell colSpan={columns.length}>
-                  {electives.length === 0
-                    ? `No electives are offered in ${term}.`
-                    : filters.eligibleOnly
-                      ? 'No elective matches these filters. Turn off “Eligible only” to see the others and why they are closed.'
-                      : 'No elective matches these filters.'}
-                </TableCell>
-              </TableRow>
-            ) : null}
-          </TableBody>
-        </Table>
-      </TableContainer>
+      <DataTable
+        table={table}
+        labelledBy={labelledBy}
+        sx={{
+          '& td, & th': { px: 1 },
+          // Two-line headers keep the numeric columns narrow enough for the row's "Why?".
+          '& thead th': { whiteSpace: 'normal', verticalAlign: 'bottom', lineHeight: 1.25 },
+        }}
+        hover
+        rowProps={(row) => ({
+          selected: shortlisted.has(row.original.courseCode),
+          sx: row.original.eligible ? undefined : { '& td': { color: 'text.secondary' } },
+        })}
+        empty={
+          electives.length === 0
+            ? `No electives are offered in ${term}.`
+            : filters.eligibleOnly
+              ? 'No elective matches these filters. Turn off “Eligible only” to see the others and why they are closed.'
+              : 'No elective matches these filters.'
+        }
+      />
     </Box>
   );
 }

@@ -1,22 +1,14 @@
 import { useMemo, useState } from 'react';
 import {
   createColumnHelper,
-  flexRender,
   getCoreRowModel,
   getSortedRowModel,
   useReactTable,
   type SortingState,
 } from '@tanstack/react-table';
-import Paper from '@mui/material/Paper';
-import Table from '@mui/material/Table';
-import TableBody from '@mui/material/TableBody';
-import TableCell from '@mui/material/TableCell';
-import TableContainer from '@mui/material/TableContainer';
-import TableHead from '@mui/material/TableHead';
-import TableRow from '@mui/material/TableRow';
 import { compareTerms, isTerm, type HistoryEntry } from '@kinpath/contracts';
+import { DataTable, type RowGroup } from '../../../components/DataTable';
 import { fixed, plural } from '../format';
-import { SortableHeaderCell } from './SortableHeaderCell';
 
 const column = createColumnHelper<HistoryEntry>();
 
@@ -86,56 +78,21 @@ export function HistoryTable({
       list.push(row);
       byTerm.set(row.original.term, list);
     }
-    return [...byTerm.entries()].sort(([a], [b]) => termsFirst * termOrder(a, b));
+    return [...byTerm.entries()]
+      .sort(([a], [b]) => termsFirst * termOrder(a, b))
+      .map(([term, termRows]): RowGroup<HistoryEntry> => ({
+        id: term,
+        heading: `${term} · ${plural(termRows.length, 'course')}`,
+        rows: termRows,
+      }));
   }, [rows, termsFirst]);
 
   return (
-    <TableContainer component={Paper} variant="outlined">
-      <Table aria-labelledby={labelledBy}>
-        <TableHead>
-          {table.getHeaderGroups().map((group) => (
-            <TableRow key={group.id}>
-              {group.headers.map((header) => (
-                <SortableHeaderCell key={header.id} header={header} />
-              ))}
-            </TableRow>
-          ))}
-        </TableHead>
-        {/* One body per term, headed by a row header that names the term for every row in it. */}
-        {groups.map(([term, termRows]) => (
-          <TableBody key={term}>
-            <TableRow sx={{ bgcolor: 'action.hover', breakInside: 'avoid' }}>
-              <TableCell
-                component="th"
-                scope="rowgroup"
-                colSpan={columns.length}
-                sx={{ fontWeight: 700 }}
-              >
-                {term} · {plural(termRows.length, 'course')}
-              </TableCell>
-            </TableRow>
-            {termRows.map((row) => (
-              <TableRow key={row.id}>
-                {row.getVisibleCells().map((cell) => (
-                  <TableCell
-                    key={cell.id}
-                    align={cell.column.columnDef.meta?.numeric ? 'right' : 'left'}
-                  >
-                    {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                  </TableCell>
-                ))}
-              </TableRow>
-            ))}
-          </TableBody>
-        ))}
-        {rows.length === 0 ? (
-          <TableBody>
-            <TableRow>
-              <TableCell colSpan={columns.length}>No course attempts on record.</TableCell>
-            </TableRow>
-          </TableBody>
-        ) : null}
-      </Table>
-    </TableContainer>
+    <DataTable
+      table={table}
+      labelledBy={labelledBy}
+      groups={groups}
+      empty="No course attempts on record."
+    />
   );
 }

@@ -1,26 +1,15 @@
 import { useId, useMemo, useState } from 'react';
 import { useForm } from 'react-hook-form';
-import {
-  createColumnHelper,
-  flexRender,
-  getCoreRowModel,
-  useReactTable,
-} from '@tanstack/react-table';
+import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
 import Alert from '@mui/material/Alert';
 import Box from '@mui/material/Box';
 import Button from '@mui/material/Button';
-import Paper from '@mui/material/Paper';
-import Table from '@mui/material/Table';
-import TableBody from '@mui/material/TableBody';
-import TableCell from '@mui/material/TableCell';
-import TableContainer from '@mui/material/TableContainer';
-import TableHead from '@mui/material/TableHead';
 import TablePagination from '@mui/material/TablePagination';
-import TableRow from '@mui/material/TableRow';
 import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
 import Download from '@mui/icons-material/Download';
 import type { AuditEntry } from '@kinpath/contracts';
+import { DataTable } from '../../../components/DataTable';
 import { PageHeader } from '../../../components/PageHeader';
 import { downloadAuditCsv, useAuditTrail, type AuditFilters } from '../api/audit';
 
@@ -51,6 +40,9 @@ const columns = [
   column.accessor((e) => detailText(e.detail), { id: 'detail', header: 'Detail' }),
 ];
 
+// Long details wrap inside their cell instead of widening the table.
+const ENTRY_CELL = { verticalAlign: 'top', wordBreak: 'break-word' } as const;
+
 const NO_FILTERS: AuditFilters = { action: '', actor: '', from: '', to: '' };
 
 export function AuditPage() {
@@ -64,7 +56,13 @@ export function AuditPage() {
   const { register, handleSubmit, reset } = useForm<AuditFilters>({ defaultValues: NO_FILTERS });
 
   const data = useMemo(() => trail.data?.items ?? [], [trail.data]);
-  const table = useReactTable({ data, columns, getCoreRowModel: getCoreRowModel() });
+  // The server filters and pages the trail; sorting one page here would mislead.
+  const table = useReactTable({
+    data,
+    columns,
+    enableSorting: false,
+    getCoreRowModel: getCoreRowModel(),
+  });
 
   const apply = handleSubmit((values) => {
     setFilters(values);
@@ -169,37 +167,13 @@ export function AuditPage() {
       <Typography role="status" sx={{ color: 'text.secondary', mb: 1 }} className="kp-figures">
         {trail.isPending ? 'Loading the audit trail…' : `${trail.data?.total ?? 0} entries match.`}
       </Typography>
-      <TableContainer component={Paper} variant="outlined">
-        <Table size="small" aria-labelledby={headingId}>
-          <TableHead>
-            {table.getHeaderGroups().map((group) => (
-              <TableRow key={group.id}>
-                {group.headers.map((header) => (
-                  <TableCell key={header.id}>
-                    {flexRender(header.column.columnDef.header, header.getContext())}
-                  </TableCell>
-                ))}
-              </TableRow>
-            ))}
-          </TableHead>
-          <TableBody>
-            {table.getRowModel().rows.map((row) => (
-              <TableRow key={row.id}>
-                {row.getVisibleCells().map((cell) => (
-                  <TableCell key={cell.id} sx={{ verticalAlign: 'top', wordBreak: 'break-word' }}>
-                    {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                  </TableCell>
-                ))}
-              </TableRow>
-            ))}
-            {!trail.isPending && data.length === 0 ? (
-              <TableRow>
-                <TableCell colSpan={columns.length}>No entry matches these filters.</TableCell>
-              </TableRow>
-            ) : null}
-          </TableBody>
-        </Table>
-      </TableContainer>
+      <DataTable
+        table={table}
+        labelledBy={headingId}
+        dense
+        cellSx={() => ENTRY_CELL}
+        empty={trail.isPending ? undefined : 'No entry matches these filters.'}
+      />
       <TablePagination
         component="div"
         count={trail.data?.total ?? 0}

@@ -7,6 +7,7 @@ import type { Role } from '@kinpath/contracts';
 import { Brand } from '../../../components/Brand';
 import { PageTitle } from '../../../components/PageTitle';
 import { MAIN_CONTENT_ID, SkipLink } from '../../../components/SkipLink';
+import { PageLoading } from '../../../app/PageLoad';
 import { landingPathFor, PAGES } from '../../../app/pages';
 import { useAuth } from '../AuthProvider';
 import { SignInForm } from '../components/SignInForm';
@@ -24,7 +25,13 @@ export function SignInPage() {
   const location = useLocation();
   if (user) {
     const from = (location.state as { from?: Location } | null)?.from;
-    return <Navigate to={destinationAfterSignIn(user.role, from)} replace />;
+    // The progress bar shows while the next page's code is fetched.
+    return (
+      <>
+        <PageLoading />
+        <Navigate to={destinationAfterSignIn(user.role, from)} replace />
+      </>
+    );
   }
 
   return (

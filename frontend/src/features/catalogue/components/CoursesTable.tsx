@@ -1,28 +1,20 @@
 import { useMemo, useState } from 'react';
 import {
   createColumnHelper,
-  flexRender,
   getCoreRowModel,
   getFilteredRowModel,
   getPaginationRowModel,
   getSortedRowModel,
   useReactTable,
   type ColumnFiltersState,
+  type PaginationState,
   type SortingState,
 } from '@tanstack/react-table';
 import Box from '@mui/material/Box';
-import Paper from '@mui/material/Paper';
-import Table from '@mui/material/Table';
-import TableBody from '@mui/material/TableBody';
-import TableCell from '@mui/material/TableCell';
-import TableContainer from '@mui/material/TableContainer';
-import TableHead from '@mui/material/TableHead';
-import TablePagination from '@mui/material/TablePagination';
-import TableRow from '@mui/material/TableRow';
-import TableSortLabel from '@mui/material/TableSortLabel';
 import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
 import type { CourseSummary } from '@kinpath/contracts';
+import { DataTable } from '../../../components/DataTable';
 import { formatCount } from '../../imports/words';
 
 const column = createColumnHelper<CourseSummary>();
@@ -78,7 +70,10 @@ export function CoursesTable({
   const [sorting, setSorting] = useState<SortingState>([{ id: 'courseCode', desc: false }]);
   const [filters, setFilters] = useState<ColumnFiltersState>([]);
   const [search, setSearch] = useState('');
-  const [pageIndex, setPageIndex] = useState(0);
+  const [pagination, setPagination] = useState<PaginationState>({
+    pageIndex: 0,
+    pageSize: PAGE_SIZE,
+  });
   const data = useMemo(() => courses, [courses]);
   const departments = useMemo(
     () => [...new Set(courses.map((c) => c.department))].sort(),
@@ -98,9 +93,10 @@ export function CoursesTable({
       sorting,
       columnFilters: filters,
       globalFilter: search,
-      pagination: { pageIndex, pageSize: PAGE_SIZE },
+      pagination,
     },
     onSortingChange: setSorting,
+    onPaginationChange: setPagination,
     onColumnFiltersChange: setFilters,
     onGlobalFilterChange: setSearch,
     globalFilterFn: (row, _id, wanted: string) => {
@@ -118,14 +114,13 @@ export function CoursesTable({
   });
   const filterOf = (id: string) => (filters.find((f) => f.id === id)?.value as string) ?? '';
   const setFilter = (id: string, value: string) => {
-    setPageIndex(0);
+    table.setPageIndex(0);
     setFilters((current) => [
       ...current.filter((f) => f.id !== id),
       ...(value ? [{ id, value }] : []),
     ]);
   };
   const shown = table.getFilteredRowModel().rows.length;
-  const pageRows = table.getRowModel().rows;
 
   return (
     <Box>
@@ -161,7 +156,7 @@ export function CoursesTable({
           label="Search code or title"
           value={search}
           onChange={(event) => {
-            setPageIndex(0);
+            table.setPageIndex(0);
             setSearch(event.target.value);
           }}
           sx={{ maxWidth: 260 }}
@@ -173,85 +168,13 @@ export function CoursesTable({
             : `${formatCount(shown)} of ${formatCount(courses.length)} courses`}
         </Typography>
       </Box>
-      {/* Focusable, so that a narrow window can be scrolled sideways from the keyboard. */}
-      <TableContainer
-        component={Paper}
-        variant="outlined"
-        tabIndex={0}
-        role="region"
-        aria-labelledby={labelledBy}
-      >
-        <Table aria-labelledby={labelledBy}>
-          <TableHead>
-            {table.getHeaderGroups().map((group) => (
-              <TableRow key={group.id}>
-                {group.headers.map((header) => {
-                  const sorted = header.column.getIsSorted();
-                  const numeric = header.column.columnDef.meta?.numeric;
-                  const label = flexRender(header.column.columnDef.header, header.getContext());
-                  const sortable = header.column.getCanSort();
-                  return (
-                    <TableCell
-                      key={header.id}
-                      align={numeric ? 'right' : 'left'}
-                      aria-sort={
-                        !sortable
-                          ? undefined
-                          : sorted === 'asc'
-                            ? 'ascending'
-                            : sorted === 'desc'
-                              ? 'descending'
-                              : 'none'
-                      }
-                    >
-                      {sortable ? (
-                        <TableSortLabel
-                          active={sorted !== false}
-                          direction={sorted === 'desc' ? 'desc' : 'asc'}
-                          onClick={header.column.getToggleSortingHandler()}
-                        >
-                          {label}
-                        </TableSortLabel>
-                      ) : (
-                        label
-                      )}
-                    </TableCell>
-                  );
-                })}
-              </TableRow>
-            ))}
-          </TableHead>
-          <TableBody>
-            {pageRows.map((row) => (
-              <TableRow key={row.id} hover>
-                {row.getVisibleCells().map((cell) => (
-                  <TableCell
-                    key={cell.id}
-                    align={cell.column.columnDef.meta?.numeric ? 'right' : 'left'}
-                  >
-                    {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                  </TableCell>
-                ))}
-              </TableRow>
-            ))}
-            {pageRows.length === 0 ? (
-              <TableRow>
-                <TableCell colSpan={columns.length}>No course matches the filters.</TableCell>
-              </TableRow>
-            ) : null}
-          </TableBody>
-        </Table>
-        {shown > PAGE_SIZE ? (
-          <TablePagination
-            component="div"
-            count={shown}
-            page={pageIndex}
-            onPageChange={(_, page) => setPageIndex(page)}
-            rowsPerPage={PAGE_SIZE}
-            rowsPerPageOptions={[PAGE_SIZE]}
-          />
-        ) : null}
-      </TableContainer>
+      <DataTable
+        table={table}
+        labelledBy={labelledBy}
+        scrollable
+        hover
+        empty="No course matches the filters."
+      />
     </Box>
   );
 }

@@ -2,29 +2,21 @@ import { useMemo, useState } from 'react';
 import { Link as RouterLink } from 'react-router';
 import {
   createColumnHelper,
-  flexRender,
   getCoreRowModel,
   getFilteredRowModel,
   getPaginationRowModel,
   getSortedRowModel,
   useReactTable,
   type ColumnFiltersState,
+  type PaginationState,
   type SortingState,
 } from '@tanstack/react-table';
 import Box from '@mui/material/Box';
 import Link from '@mui/material/Link';
-import Paper from '@mui/material/Paper';
-import Table from '@mui/material/Table';
-import TableBody from '@mui/material/TableBody';
-import TableCell from '@mui/material/TableCell';
-import TableContainer from '@mui/material/TableContainer';
-import TableHead from '@mui/material/TableHead';
-import TablePagination from '@mui/material/TablePagination';
-import TableRow from '@mui/material/TableRow';
-import TableSortLabel from '@mui/material/TableSortLabel';
 import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
 import { IMPORT_KINDS, type ImportSummary } from '@kinpath/contracts';
+import { DataTable } from '../../../components/DataTable';
 import { KIND_LABELS, dateTime, duration, formatCount, modelCaughtUpWith } from '../words';
 import { StatusLabel } from './StatusLabel';
 
@@ -122,13 +114,17 @@ export function ImportHistory({
 }) {
   const [sorting, setSorting] = useState<SortingState>([{ id: 'createdAt', desc: true }]);
   const [filters, setFilters] = useState<ColumnFiltersState>([]);
-  const [pageIndex, setPageIndex] = useState(0);
+  const [pagination, setPagination] = useState<PaginationState>({
+    pageIndex: 0,
+    pageSize: PAGE_SIZE,
+  });
   const data = useMemo(() => imports, [imports]);
   const table = useReactTable({
     data,
     columns,
-    state: { sorting, columnFilters: filters, pagination: { pageIndex, pageSize: PAGE_SIZE } },
+    state: { sorting, columnFilters: filters, pagination },
     onSortingChange: setSorting,
+    onPaginationChange: setPagination,
     onColumnFiltersChange: setFilters,
     getCoreRowModel: getCoreRowModel(),
     getSortedRowModel: getSortedRowModel(),
@@ -139,7 +135,6 @@ export function ImportHistory({
   });
   const kindFilter = (filters.find((f) => f.id === 'kind')?.value as string) ?? '';
   const shown = table.getFilteredRowModel().rows.length;
-  const pageRows = table.getRowModel().rows;
 
   return (
     <Box>
@@ -149,7 +144,7 @@ export function ImportHistory({
           label="Kind"
           value={kindFilter}
           onChange={(event) => {
-            setPageIndex(0);
+            table.setPageIndex(0);
             setFilters(event.target.value ? [{ id: 'kind', value: event.target.value }] : []);
           }}
           sx={{ maxWidth: 220 }}
@@ -168,87 +163,23 @@ export function ImportHistory({
             : `${formatCount(shown)} of ${formatCount(imports.length)} imports`}
         </Typography>
       </Box>
-      {/* Focusable, so that a narrow window can be scrolled sideways from the keyboard. */}
-      <TableContainer
-        component={Paper}
-        variant="outlined"
-        tabIndex={0}
-        role="region"
-        aria-labelledby={labelledBy}
-      >
-        <Table
-          aria-labelledby={labelledBy}
-          sx={{ '& th, & td': { px: 1.25 }, '& td': { verticalAlign: 'top' } }}
-        >
-          <TableHead>
-            {table.getHeaderGroups().map((group) => (
-              <TableRow key={group.id}>
-                {group.headers.map((header) => {
-                  const sorted = header.column.getIsSorted();
-                  const numeric = header.column.columnDef.meta?.numeric;
-                  return (
-                    <TableCell
-                      key={header.id}
-                      align={numeric ? 'right' : 'left'}
-                      aria-sort={
-                        sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : 'none'
-                      }
-                    >
-                      <TableSortLabel
-                        active={sorted !== false}
-                        direction={sorted === 'desc' ? 'desc' : 'asc'}
-                        onClick={header.column.getToggleSortingHandler()}
-                      >
-                        {flexRender(header.column.columnDef.header, header.getContext())}
-                      </TableSortLabel>
-                    </TableCell>
-                  );
-                })}
-              </TableRow>
-            ))}
-          </TableHead>
-          <TableBody>
-            {pageRows.map((row) => {
-              const selected = row.id === selectedId;
-              return (
-                <TableRow
-                  key={row.id}
-                  hover
-                  selected={selected}
-                  aria-current={selected ? 'true' : undefined}
-                >
-                  {row.getVisibleCells().map((cell) => (
-                    <TableCell
-                      key={cell.id}
-                      align={cell.column.columnDef.meta?.numeric ? 'right' : 'left'}
-                      sx={
-                        selected && cell.column.id === 'fileName' ? { fontWeight: 700 } : undefined
-                      }
-                    >
-                      {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                    </TableCell>
-                  ))}
-                </TableRow>
-              );
-            })}
-            {pageRows.length === 0 ? (
-              <TableRow>
-                <TableCell colSpan={columns.length}>No import of this kind yet.</TableCell>
-              </TableRow>
-            ) : null}
-          </TableBody>
-        </Table>
-        {shown > PAGE_SIZE ? (
-          <TablePagination
-            component="div"
-            count={shown}
-            page={pageIndex}
-            onPageChange={(_, page) => setPageIndex(page)}
-            rowsPerPage={PAGE_SIZE}
-            rowsPerPageOptions={[PAGE_SIZE]}
-          />
-        ) : null}
-      </TableContainer>
+      <DataTable
+        table={table}
+        labelledBy={labelledBy}
+        scrollable
+        sx={{ '& th, & td': { px: 1.25 }, '& td': { verticalAlign: 'top' } }}
+        hover
+        rowProps={(row) => ({
+          selected: row.id === selectedId,
+          'aria-current': row.id === selectedId ? 'true' : undefined,
+        })}
+        cellSx={(cell) =>
+          cell.row.id === selectedId && cell.column.id === 'fileName'
+            ? { fontWeight: 700 }
+            : undefined
+        }
+        empty="No import of this kind yet."
+      />
     </Box>
   );
 }

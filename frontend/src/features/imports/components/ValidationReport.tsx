@@ -1,28 +1,20 @@
 import { useId, useMemo, useState } from 'react';
 import {
   createColumnHelper,
-  flexRender,
   getCoreRowModel,
   getFilteredRowModel,
   getPaginationRowModel,
   getSortedRowModel,
   useReactTable,
   type ColumnFiltersState,
+  type PaginationState,
   type SortingState,
 } from '@tanstack/react-table';
 import Box from '@mui/material/Box';
-import Paper from '@mui/material/Paper';
-import Table from '@mui/material/Table';
-import TableBody from '@mui/material/TableBody';
-import TableCell from '@mui/material/TableCell';
-import TableContainer from '@mui/material/TableContainer';
-import TableHead from '@mui/material/TableHead';
-import TablePagination from '@mui/material/TablePagination';
-import TableRow from '@mui/material/TableRow';
-import TableSortLabel from '@mui/material/TableSortLabel';
 import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
 import type { ImportRejection } from '@kinpath/contracts';
+import { DataTable } from '../../../components/DataTable';
 import { formatCount } from '../words';
 
 /**
@@ -76,7 +68,10 @@ export function ValidationReport({
 }) {
   const [sorting, setSorting] = useState<SortingState>([{ id: 'line', desc: false }]);
   const [filters, setFilters] = useState<ColumnFiltersState>([]);
-  const [pageIndex, setPageIndex] = useState(0);
+  const [pagination, setPagination] = useState<PaginationState>({
+    pageIndex: 0,
+    pageSize: PAGE_SIZE,
+  });
   const countId = useId();
   const data = useMemo(() => rejections, [rejections]);
   const columnNames = useMemo(
@@ -98,8 +93,9 @@ export function ValidationReport({
   const table = useReactTable({
     data,
     columns,
-    state: { sorting, columnFilters: filters, pagination: { pageIndex, pageSize: PAGE_SIZE } },
+    state: { sorting, columnFilters: filters, pagination },
     onSortingChange: setSorting,
+    onPaginationChange: setPagination,
     onColumnFiltersChange: setFilters,
     getCoreRowModel: getCoreRowModel(),
     getSortedRowModel: getSortedRowModel(),
@@ -109,14 +105,13 @@ export function ValidationReport({
   });
   const filterOf = (id: string) => (filters.find((f) => f.id === id)?.value as string) ?? '';
   const setFilter = (id: string, value: string) => {
-    setPageIndex(0);
+    table.setPageIndex(0);
     setFilters((current) => [
       ...current.filter((f) => f.id !== id),
       ...(value ? [{ id, value }] : []),
     ]);
   };
   const shown = table.getFilteredRowModel().rows.length;
-  const pageRows = table.getRowModel().rows;
 
   return (
     <Box>
@@ -162,87 +157,13 @@ export function ValidationReport({
             : `${formatCount(shown)} of ${formatCount(rejections.length)} rejected cells`}
         </Typography>
       </Box>
-      {/* Focusable, so that a narrow window can be scrolled sideways from the keyboard. */}
-      <TableContainer
-        component={Paper}
-        variant="outlined"
-        tabIndex={0}
-        role="region"
-        aria-labelledby={labelledBy}
-      >
-        <Table aria-labelledby={labelledBy}>
-          <TableHead>
-            {table.getHeaderGroups().map((group) => (
-              <TableRow key={group.id}>
-                {group.headers.map((header) => {
-                  const sorted = header.column.getIsSorted();
-                  const numeric = header.column.columnDef.meta?.numeric;
-                  const label = flexRender(header.column.columnDef.header, header.getContext());
-                  return (
-                    <TableCell
-                      key={header.id}
-                      align={numeric ? 'right' : 'left'}
-                      aria-sort={
-                        !header.column.getCanSort()
-                          ? undefined
-                          : sorted === 'asc'
-                            ? 'ascending'
-                            : sorted === 'desc'
-                              ? 'descending'
-                              : 'none'
-                      }
-                    >
-                      {header.column.getCanSort() ? (
-                        <TableSortLabel
-                          active={sorted !== false}
-                          direction={sorted === 'desc' ? 'desc' : 'asc'}
-                          onClick={header.column.getToggleSortingHandler()}
-                        >
-                          {label}
-                        </TableSortLabel>
-                      ) : (
-                        label
-                      )}
-                    </TableCell>
-                  );
-                })}
-              </TableRow>
-            ))}
-          </TableHead>
-          <TableBody>
-            {pageRows.map((row) => (
-              <TableRow key={row.id}>
-                {row.getVisibleCells().map((cell) => (
-                  <TableCell
-                    key={cell.id}
-                    align={cell.column.columnDef.meta?.numeric ? 'right' : 'left'}
-                    sx={cell.column.id === 'reason' ? { minWidth: 280 } : undefined}
-                  >
-                    {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                  </TableCell>
-                ))}
-              </TableRow>
-            ))}
-            {pageRows.length === 0 ? (
-              <TableRow>
-                <TableCell colSpan={columns.length}>
-                  No rejected cell matches the filters.
-                </TableCell>
-              </TableRow>
-            ) : null}
-          </TableBody>
-        </Table>
-        {shown > PAGE_SIZE ? (
-          <TablePagination
-            component="div"
-            count={shown}
-            page={pageIndex}
-            onPageChange={(_, page) => setPageIndex(page)}
-            rowsPerPage={PAGE_SIZE}
-            rowsPerPageOptions={[PAGE_SIZE]}
-          />
-        ) : null}
-      </TableContainer>
+      <DataTable
+        table={table}
+        labelledBy={labelledBy}
+        scrollable
+        cellSx={(cell) => (cell.column.id === 'reason' ? { minWidth: 280 } : undefined)}
+        empty="No rejected cell matches the filters."
+      />
     </Box>
   );
 }

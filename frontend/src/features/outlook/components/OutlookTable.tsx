@@ -1,21 +1,13 @@
 import { useMemo, useState } from 'react';
 import {
   createColumnHelper,
-  flexRender,
   getCoreRowModel,
   getSortedRowModel,
   useReactTable,
   type SortingState,
 } from '@tanstack/react-table';
-import Paper from '@mui/material/Paper';
-import Table from '@mui/material/Table';
-import TableBody from '@mui/material/TableBody';
-import TableCell from '@mui/material/TableCell';
-import TableContainer from '@mui/material/TableContainer';
-import TableHead from '@mui/material/TableHead';
-import TableRow from '@mui/material/TableRow';
 import type { CourseForecast } from '@kinpath/contracts';
-import { SortableHeaderCell } from '../../advising/components/SortableHeaderCell';
+import { DataTable } from '../../../components/DataTable';
 import { fixed, percent } from '../format';
 import { FlagLabel } from './FlagLabel';
 
@@ -55,6 +47,9 @@ const columns = [
   }),
 ];
 
+// An interval such as "12.0 – 18.5" stays on one line.
+const FIGURES = { fontVariantNumeric: 'tabular-nums', whiteSpace: 'nowrap' } as const;
+
 /** The demand outlook per elective: seats, expected demand with its interval, utilisation, flag. */
 export function OutlookTable({ rows, caption }: { rows: CourseForecast[]; caption: string }) {
   const [sorting, setSorting] = useState<SortingState>([]);
@@ -68,38 +63,12 @@ export function OutlookTable({ rows, caption }: { rows: CourseForecast[]; captio
     getSortedRowModel: getSortedRowModel(),
   });
   return (
-    <TableContainer component={Paper} variant="outlined">
-      <Table size="small">
-        <caption style={{ captionSide: 'top', textAlign: 'left' }}>{caption}</caption>
-        <TableHead>
-          {table.getHeaderGroups().map((group) => (
-            <TableRow key={group.id}>
-              {group.headers.map((header) => (
-                <SortableHeaderCell key={header.id} header={header} />
-              ))}
-            </TableRow>
-          ))}
-        </TableHead>
-        <TableBody>
-          {table.getRowModel().rows.map((row) => (
-            <TableRow key={row.id} data-course={row.original.courseCode}>
-              {row.getVisibleCells().map((cell) => (
-                <TableCell
-                  key={cell.id}
-                  align={cell.column.columnDef.meta?.numeric ? 'right' : 'left'}
-                  sx={
-                    cell.column.columnDef.meta?.numeric
-                      ? { fontVariantNumeric: 'tabular-nums', whiteSpace: 'nowrap' }
-                      : undefined
-                  }
-                >
-                  {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                </TableCell>
-              ))}
-            </TableRow>
-          ))}
-        </TableBody>
-      </Table>
-    </TableContainer>
+    <DataTable
+      table={table}
+      caption={caption}
+      dense
+      rowProps={(row) => ({ 'data-course': row.original.courseCode })}
+      cellSx={(cell) => (cell.column.columnDef.meta?.numeric ? FIGURES : undefined)}
+    />
   );
 }

@@ -1,7 +1,6 @@
 import { useMemo, useState } from 'react';
 import {
   createColumnHelper,
-  flexRender,
   getCoreRowModel,
   getFilteredRowModel,
   getSortedRowModel,
@@ -9,18 +8,11 @@ import {
   type SortingState,
 } from '@tanstack/react-table';
 import Box from '@mui/material/Box';
-import Paper from '@mui/material/Paper';
-import Table from '@mui/material/Table';
-import TableBody from '@mui/material/TableBody';
-import TableCell from '@mui/material/TableCell';
-import TableContainer from '@mui/material/TableContainer';
-import TableHead from '@mui/material/TableHead';
-import TableRow from '@mui/material/TableRow';
-import TableSortLabel from '@mui/material/TableSortLabel';
 import Alert from '@mui/material/Alert';
 import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
 import { ROLE_LABELS, type UserAccount } from '@kinpath/contracts';
+import { DataTable } from '../../../components/DataTable';
 import { AccountActions } from './AccountActions';
 
 const column = createColumnHelper<UserAccount>();
@@ -118,68 +110,12 @@ export function UsersTable({ users, captionId }: { users: UserAccount[]; caption
           {outcome.message}
         </Alert>
       ) : null}
-      <TableContainer component={Paper} variant="outlined">
-        <Table aria-labelledby={captionId}>
-          <TableHead>
-            {table.getHeaderGroups().map((group) => (
-              <TableRow key={group.id}>
-                {group.headers.map((header) => {
-                  const sorted = header.column.getIsSorted();
-                  const numeric = header.column.columnDef.meta?.numeric;
-                  return (
-                    <TableCell
-                      key={header.id}
-                      align={numeric ? 'right' : 'left'}
-                      aria-sort={
-                        !header.column.getCanSort()
-                          ? undefined
-                          : sorted === 'asc'
-                            ? 'ascending'
-                            : sorted === 'desc'
-                              ? 'descending'
-                              : 'none'
-                      }
-                    >
-                      {header.column.getCanSort() ? (
-                        <TableSortLabel
-                          active={sorted !== false}
-                          direction={sorted === 'desc' ? 'desc' : 'asc'}
-                          onClick={header.column.getToggleSortingHandler()}
-                        >
-                          {flexRender(header.column.columnDef.header, header.getContext())}
-                        </TableSortLabel>
-                      ) : (
-                        flexRender(header.column.columnDef.header, header.getContext())
-                      )}
-                    </TableCell>
-                  );
-                })}
-              </TableRow>
-            ))}
-          </TableHead>
-          <TableBody>
-            {rows.map((row) => (
-              <TableRow key={row.id} hover>
-                {row.getVisibleCells().map((cell) => (
-                  <TableCell
-                    key={cell.id}
-                    align={cell.column.columnDef.meta?.numeric ? 'right' : 'left'}
-                  >
-                    {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                  </TableCell>
-                ))}
-              </TableRow>
-            ))}
-            {rows.length === 0 ? (
-              <TableRow>
-                <TableCell colSpan={allColumns.length}>
-                  {users.length === 0 ? 'No accounts yet.' : 'No account matches the filter.'}
-                </TableCell>
-              </TableRow>
-            ) : null}
-          </TableBody>
-        </Table>
-      </TableContainer>
+      <DataTable
+        table={table}
+        labelledBy={captionId}
+        hover
+        empty={users.length === 0 ? 'No accounts yet.' : 'No account matches the filter.'}
+      />
     </Box>
   );
 }
