@@ -488,6 +488,9 @@ function bucketCount(n: number): number {
   return Math.min(MAX_BUCKETS, Math.max(MIN_BUCKETS, 2 * n));
 }
 
+/** The smallest and largest w of the last collected candidates (bucketing needs both). */
+const wRange = new Float64Array(2);
+
 function collectCandidates(
   touched: Int32Array,
   nTouched: number,
@@ -497,10 +500,19 @@ function collectCandidates(
   cand: Int32Array,
 ): number {
   let nc = 0;
+  let lo = Infinity;
+  let hi = -Infinity;
   for (let t = 0; t < nTouched; t++) {
     const i = touched[t];
-    if (i !== a && w[i] > minSim) cand[nc++] = i;
+    const x = w[i];
+    if (i !== a && x > minSim) {
+      cand[nc++] = i;
+      if (x < lo) lo = x;
+      if (x > hi) hi = x;
+    }
   }
+  wRange[0] = lo;
+  wRange[1] = hi;
   return nc;
 }
 
@@ -512,7 +524,18 @@ function collectAll(
   cand: Int32Array,
 ): number {
   let nc = 0;
-  for (let i = 0; i < S; i++) if (w[i] > minSim && i !== a) cand[nc++] = i;
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < S; i++) {
+    const x = w[i];
+    if (x > minSim && i !== a) {
+      cand[nc++] = i;
+      if (x < lo) lo = x;
+      if (x > hi) hi = x;
+    }
+  }
+  wRange[0] = lo;
+  wRange[1] = hi;
   return nc;
 }
 
@@ -572,13 +595,9 @@ function bucketByWeight(
   maxBuckets: number,
   key: Uint16Array,
 ): number {
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (let c = 0; c < nc; c++) {
-    const x = w[cand[c]];
-    if (x < lo) lo = x;
-    if (x > hi) hi = x;
-  }
+  // Set by the collect that filled cand.
+  const lo = wRange[0];
+  const hi = wRange[1];
   let nb: number;
   if (lo > 0) {
     const top = highBits(hi);
