@@ -3,7 +3,7 @@
 // a time). Runs on the test cluster in databases of its own and a server with
 // the Halden Reach demo on port 3399.
 //
-//   npm run bench [-- --only engine,imports,electives,scoring,load] [--full]
+//   npm run bench [-- --only engine,imports,electives,scoring,load,electives-full] [--full]
 import { join } from 'node:path';
 import { spawnSync } from 'node:child_process';
 import { ensureDatabase, pgEnv, startCluster } from './db.mjs';
@@ -92,6 +92,17 @@ if (wanted('electives') || wanted('load')) {
   } finally {
     await stopProcess(server);
   }
+}
+
+// Electives on the 200,000-student university: loading its ~8 M records and building the
+// server's model take several minutes, so it runs with `--full` or when named in `--only`.
+if (args.includes('--full') || only?.has('electives-full')) {
+  step(
+    'electives-full',
+    process.execPath,
+    [bench('electives-full.bench.mjs'), '--port', '3398', '--database', 'kinpath_bench_200k'],
+    pgEnv(db, 'postgres'),
+  );
 }
 
 console.log(

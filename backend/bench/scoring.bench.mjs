@@ -2,30 +2,25 @@
 // Cohort scoring through the job machinery: the engine benchmark's invented university
 // (generateUniversity, fixed seed) loaded straight into a scratch database with COPY, every
 // active student scored over every offered elective of the next term as chunks on pg-boss by
-// scoring worker processes, results stored. Prints the time and the per-chunk rate; asserts
+// scoring worker processes, results stored. Prints the time, the per-chunk rate and where the
+// time went (seconds per phase, summed over chunks, from the chunk and run tables); asserts
 // nothing. Target: 40,000 active students in <= 90 s with both cores.
 //
 //   PGHOST=… PGPORT=… PGUSER=… PGPASSWORD=… node backend/bench/scoring.bench.mjs
-//       [--students 200000] [--active 40000] [--offered all|N] [--chunk 2000]
-//       [--processes 2] [--threads 1]
+//       [--students 200000] [--active 40000] [--offered all|N] [--chunk 2000] [--processes 2]
 //
 // Uses the built backend and engine (npm run build). The scratch database is dropped at the end.
 import { spawn } from 'node:child_process';
 import { createHash, randomBytes } from 'node:crypto';
 import { createRequire } from 'node:module';
 import { join, resolve } from 'node:path';
-import { Readable } from 'node:stream';
-import { pipeline } from 'node:stream/promises';
 import { parseArgs } from 'node:util';
+import { loadUniversity, migrate } from './university.mjs';
 
 const require = createRequire(import.meta.url);
 const dist = resolve(import.meta.dirname, '..', 'dist');
 const pg = require('pg');
-const { from: copyFrom } = require('pg-copy-streams');
-require('reflect-metadata');
-const { DataSource } = require('typeorm');
 const engine = require('@kinpath/engine');
-const { dataSourceOptions } = require(join(dist, 'database', 'options.js'));
 const { DATA_STAMP_SQL } = require(join(dist, 'forecasts', 'cohort.js'));
 const { ScoringQueue } = require(join(dist, 'forecasts', 'scoring-queue.js'));
 
@@ -36,7 +31,6 @@ const { values: args } = parseArgs({
     offered: { type: 'string', default: 'all' },
     chunk: { type: 'string', default: '2000' },
     processes: { type: 'string', default: '2' },
-    threads: { type: 'string', default: '1' },
   },
 });
 const S = Number(args.students);
@@ -46,36 +40,6 @@ const PROCESSES = Number(args.processes);
 const seconds = (t0) => ((performance.now() - t0) / 1000).toFixed(1);
 const out = (label, value) => console.log(`${label.padEnd(44)} ${value}`);
 
-const LETTERS = [
-  ['F', 0], ['D-', 0.7], ['D', 1], ['D+', 1.3], ['C-', 1.7], ['C', 2], ['C+', 2.3], ['B-', 2.7],
-  ['B', 3], ['B+', 3.3], ['A-', 3.7], ['A', 4],
-]; // prettier-ignore
-const letterOf = new Map(LETTERS.map(([l, p]) => [p, l]));
-
-/** Course keys as the catalogue accepts them (the generator may add an X to a repeated key). */
-function courseCodes(keys) {
-  const valid = /^[A-Z]{2,6} [0-9]{3,5}$/;
-  let extra = 0;
-  return new Map(keys.map((k) => [k, valid.test(k) ? k : `XTR ${10000 + extra++}`]));
-}
-
-async function copyRows(client, sql, rows) {
-  await pipeline(Readable.from(rows), client.query(copyFrom(sql)));
-}
-
-function* lines(count, line, batch = 8192) {
-  let buffer = '';
-  for (let i = 0; i < count; i++) {
-    const l = line(i);
-    if (l) buffer += l;
-    if ((i + 1) % batch === 0) {
-      yield buffer;
-      buffer = '';
-    }
-  }
-  if (buffer) yield buffer;
-}
-
 async function main() {
   out('machine', `${require('node:os').availableParallelism()} cores, Node ${process.version}`);
   let t0 = performance.now();
@@ -83,14 +47,6 @@ async function main() {
   out(
     'generate (engine benchmark data)',
     `${S} students, ${uni.students.length} records, ${seconds(t0)} s`,
-  );
-  const codes = courseCodes(uni.courseKeys);
-  const electives = uni.electives.map((k) => codes.get(k));
-  const offered = args.offered === 'all' ? electives : electives.slice(0, Number(args.offered));
-  const lastTerm = uni.termKeys[uni.termKeys.length - 1];
-  const term = `${Number(lastTerm.slice(0, 4)) + 1}-SP`;
-  const active = new Set(
-    Array.from({ length: ACTIVE }, (_, i) => uni.studentKeys[(i * 5) % uni.studentKeys.length]),
   );
   const pseudonym = (k) => createHash('sha256').update(`bench:${k}`).digest('hex');
 
@@ -108,65 +64,16 @@ async function main() {
   const workers = [];
   let queue = null;
   try {
-    const dataSource = new DataSource({ ...dataSourceOptions(dbConfig), logging: false });
-    await dataSource.initialize();
-    await dataSource.runMigrations();
-    await dataSource.destroy();
+    await migrate(dbConfig);
 
     t0 = performance.now();
     const client = new pg.Client({ database });
     await client.connect();
-    const electiveSet = new Set(uni.electives);
-    await copyRows(
-      client,
-      `COPY courses (course_code, title, department, credits, elective) FROM STDIN`,
-      lines(uni.courseKeys.length, (i) => {
-        const code = codes.get(uni.courseKeys[i]);
-        return `${code}\tCourse ${code}\t${code.split(' ')[0]}\t3\t${electiveSet.has(uni.courseKeys[i])}\n`;
-      }),
-    );
-    await copyRows(
-      client,
-      `COPY offerings (term, course_code, sections, capacity) FROM STDIN`,
-      lines(offered.length, (i) => `${term}\t${offered[i]}\t2\t100\n`),
-    );
-    // Entry term: each student's first term with a record.
-    const first = new Map();
-    for (let r = 0; r < uni.students.length; r++) {
-      const s = uni.students[r];
-      const t = uni.terms[r];
-      const seen = first.get(s);
-      if (!seen || engine.registrarTermOrder(t, seen) < 0) first.set(s, t);
-    }
-    await copyRows(
-      client,
-      `COPY students (pseudonym, program, entry_term, status) FROM STDIN`,
-      lines(uni.studentKeys.length, (i) => {
-        const k = uni.studentKeys[i];
-        return `${pseudonym(k)}\tP${uni.programmeOf[i]}\t${first.get(k) ?? lastTerm}\t${active.has(k) ? 'active' : 'graduated'}\n`;
-      }),
-    );
-    // One record per student, term and course (the table's key); the generator may repeat one.
-    const seen = new Set();
-    const pseudonyms = new Map();
-    await copyRows(
-      client,
-      `COPY records (student_pseudonym, term, course_code, grade, grade_points, satisfaction) FROM STDIN`,
-      lines(uni.students.length, (r) => {
-        const key = `${uni.students[r]}|${uni.terms[r]}|${uni.courses[r]}`;
-        if (seen.has(key)) return '';
-        seen.add(key);
-        if (seen.size > 2_000_000) seen.clear(); // Records come grouped by student.
-        let p = pseudonyms.get(uni.students[r]);
-        if (!p) pseudonyms.set(uni.students[r], (p = pseudonym(uni.students[r])));
-        const g = uni.grades[r];
-        const grade = g === g ? (letterOf.get(g) ?? 'C') : 'W';
-        const points = g === g ? String(g) : '\\N';
-        const sat = uni.satisfaction[r];
-        return `${p}\t${uni.terms[r]}\t${codes.get(uni.courses[r])}\t${grade}\t${points}\t${sat === sat ? sat : '\\N'}\n`;
-      }),
-    );
-    await client.query('ANALYZE');
+    const { term, offered } = await loadUniversity(client, uni, {
+      active: ACTIVE,
+      offered: args.offered,
+      pseudonym,
+    });
     out(
       'COPY into a scratch database',
       `${seconds(t0)} s (${offered.length} electives offered in ${term})`,
@@ -190,7 +97,6 @@ async function main() {
       KINPATH_DB_USER: dbConfig.user,
       KINPATH_DB_PASSWORD: dbConfig.password,
       KINPATH_DB_NAME: database,
-      KINPATH_SCORING_THREADS: args.threads,
       KINPATH_LOG_FORMAT: 'text',
     };
     t0 = performance.now();
@@ -235,11 +141,11 @@ async function main() {
     const students = Number(c.students);
     out(
       'scored by the job (plan to done)',
-      `${total.toFixed(1)} s for ${students} active students x ${offered.length} offered electives, ${PROCESSES} processes x ${args.threads} thread`,
+      `${total.toFixed(1)} s for ${students} active students x ${offered.length} offered electives, ${PROCESSES} processes`,
     );
     out('  rows stored (eligible pairs)', `${Number(c.rows)}`);
     out(
-      '  per chunk (scoring only, mean)',
+      '  per chunk (engine scoring only, mean)',
       `${(Number(c.ms) / 1000).toFixed(1)} s for ${CHUNK} students: ${((CHUNK * offered.length) / (Number(c.ms) / 1000)).toFixed(0)} predictions/s per process`,
     );
     out('  throughput', `${(students / total).toFixed(1)} students/s overall`);
@@ -247,6 +153,7 @@ async function main() {
       '  at this rate, 40,000 active students',
       `${((40_000 / students) * total).toFixed(0)} s (target <= 90 s)`,
     );
+    await printPhases(client, run.id);
     await client.end();
   } finally {
     await Promise.all(
@@ -260,8 +167,38 @@ async function main() {
       ),
     );
     await queue?.stop();
-    await admin.query(`DROP DATABASE IF EXISTS ${database} WITH (FORCE)`);
+    await dropDatabase(admin, database);
     await admin.end();
+  }
+}
+
+/** Seconds per phase: the chunks' summed over chunks, then the planning and finalising jobs'. */
+async function printPhases(client, runId) {
+  const { rows: chunks } = await client.query(
+    `SELECT key, sum(value::float8) AS ms, count(*) AS n
+     FROM scoring_chunks, jsonb_each_text(phase_ms) WHERE run_id = $1
+     GROUP BY key ORDER BY sum(value::float8) DESC`,
+    [runId],
+  );
+  console.log('  seconds per phase, summed over chunks (both processes):');
+  for (const r of chunks) out(`    ${r.key}`, `${(r.ms / 1000).toFixed(2)} s  (${r.n} chunks)`);
+  const {
+    rows: [run],
+  } = await client.query(`SELECT phase_ms FROM scoring_runs WHERE id = $1`, [runId]);
+  console.log('  seconds per phase of the planning and finalising jobs:');
+  for (const [key, ms] of Object.entries(run.phase_ms ?? {}))
+    out(`    ${key}`, `${(ms / 1000).toFixed(2)} s`);
+}
+
+/** Autovacuum may still be at work on the fresh tables; it is not ours to end, so wait. */
+async function dropDatabase(admin, database) {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await admin.query(`DROP DATABASE IF EXISTS ${database} WITH (FORCE)`);
+    } catch (error) {
+      if (attempt >= 30) throw error;
+      await new Promise((res) => setTimeout(res, 2000));
+    }
   }
 }
 

@@ -43,8 +43,6 @@ export interface CohortData {
   grade: string[];
   points: Float64Array;
   satisfaction: Float64Array;
-  /** Terms with records, in time order. */
-  recordTerms: string[];
   models: Map<number, Model>;
 }
 
@@ -175,7 +173,6 @@ async function readRecords(client: ClientBase) {
   }
   take(rest);
   from.push(course.length);
-  const recordTerms = [...ordinals.entries()].sort((a, b) => a[1] - b[1]).map(([t]) => t);
   return {
     pseudonyms,
     from: Int32Array.from(from),
@@ -185,16 +182,59 @@ async function readRecords(client: ClientBase) {
     grade,
     points: Float64Array.from(points),
     satisfaction: Float64Array.from(satisfaction),
-    recordTerms,
   };
 }
 
-/** The latest term with records before `term`; null when there is none. */
-export function completedTermBefore(data: CohortData, term: string): string | null {
+/** The latest of `terms` before `term`; null when there is none. */
+function latestBefore(terms: readonly string[], term: string): string | null {
   const o = termOrdinal(term);
   let found: string | null = null;
-  for (const t of data.recordTerms) if (termOrdinal(t) < o) found = t;
+  for (const t of terms) {
+    if (termOrdinal(t) < o && (found === null || termOrdinal(t) > termOrdinal(found))) found = t;
+  }
   return found;
+}
+
+/** What planning a run needs: its data stamp, past terms and the head count of each part. */
+export interface RunOutline {
+  stamp: string;
+  backtest: string | null;
+  calibration: string | null;
+  students: Partial<Record<ScoringPart, number>>;
+}
+
+/**
+ * A run's outline counted in SQL, in one snapshot as loadCohort reads: planning then takes
+ * seconds instead of a cohort read, and every worker process reads the cohort at the same time,
+ * each for its first chunk. The head counts are planPart's populations (a chunk checks that its
+ * cohort agrees).
+ */
+export async function outlineRun(
+  client: ClientBase,
+  term: string,
+  parts: readonly string[],
+): Promise<RunOutline> {
+  await client.query('BEGIN ISOLATION LEVEL REPEATABLE READ READ ONLY');
+  try {
+    const count = async (sql: string, params: unknown[] = []) =>
+      Number((await client.query<{ n: string }>(sql, params)).rows[0].n);
+    const stamp = (await client.query<{ stamp: string }>(DATA_STAMP_SQL)).rows[0].stamp;
+    const terms = (await client.query<{ term: string }>(`SELECT DISTINCT term FROM records`)).rows;
+    const recordTerms = terms.map((r) => r.term);
+    const backtest = parts.includes('backtest') ? latestBefore(recordTerms, term) : null;
+    const calibration =
+      backtest && parts.includes('calibration') ? latestBefore(recordTerms, backtest) : null;
+    const students: RunOutline['students'] = {
+      forecast: await count(`SELECT count(*) AS n FROM students WHERE status = 'active'`),
+    };
+    // Past terms: the students who enrolled in anything that term.
+    const enrolled = `SELECT count(DISTINCT student_pseudonym) AS n FROM records WHERE term = $1`;
+    if (backtest) students.backtest = await count(enrolled, [backtest]);
+    if (calibration) students.calibration = await count(enrolled, [calibration]);
+    return { stamp, backtest, calibration, students };
+  } finally {
+    await client.query('COMMIT');
+  }
 }
 
 /**
@@ -205,13 +245,17 @@ export function modelBefore(data: CohortData, term: string): Model {
   const cut = termOrdinal(term);
   const cached = data.models.get(cut);
   if (cached) return cached;
-  const students: string[] = [];
-  const courses: string[] = [];
-  const terms: string[] = [];
-  const grades: number[] = [];
-  const satisfaction: number[] = [];
+  // Sized first: millions of records, and growing arrays by push costs more than the build.
+  let n = 0;
+  for (let r = 0; r < data.ordinal.length; r++) if (data.ordinal[r] < cut) n++;
+  const students = new Array<string>(n);
+  const courses = new Array<string>(n);
+  const terms = new Array<string>(n);
+  const grades = new Float64Array(n);
+  const satisfaction = new Float64Array(n);
   const { minPoints, maxPoints } = data.scale;
   const keys = new Map<string, string>();
+  let i = 0;
   for (let s = 0; s < data.pseudonyms.length; s++) {
     for (let r = data.from[s]; r < data.from[s + 1]; r++) {
       if (data.ordinal[r] >= cut) continue;
@@ -220,11 +264,12 @@ export function modelBefore(data: CohortData, term: string): Model {
       let g = data.points[r];
       // Points outside an edited scale are left out, as the advising model does.
       if (g === g && (g < minPoints || g > maxPoints)) g = NaN;
-      students.push(data.pseudonyms[s]);
-      courses.push(data.course[r]);
-      terms.push(key);
-      grades.push(g);
-      satisfaction.push(data.satisfaction[r]);
+      students[i] = data.pseudonyms[s];
+      courses[i] = data.course[r];
+      terms[i] = key;
+      grades[i] = g;
+      satisfaction[i] = data.satisfaction[r];
+      i++;
     }
   }
   const scales: { grade?: Scale; satisfaction: Scale } = { satisfaction: { min: 1, max: 5 } };
@@ -354,6 +399,20 @@ export function isEligible(
 ): boolean {
   const course = data.courses.get(courseCode);
   return !!course && ineligibleReasons(course, passed, true, term).length === 0;
+}
+
+/** The student's eligible offered electives of the part, as positions in `plan.electives`. */
+export function eligibleElectives(
+  data: CohortData,
+  position: number | undefined,
+  plan: PartPlan,
+): number[] {
+  const passed = passedBefore(data, position, plan.term);
+  const eligible: number[] = [];
+  for (let t = 0; t < plan.electives.length; t++) {
+    if (isEligible(data, plan.electives[t], passed, plan.term)) eligible.push(t);
+  }
+  return eligible;
 }
 
 /** Students enrolled per elective in `term` (records in that term, any mark). */

@@ -42,8 +42,9 @@ export class ScoringQueue {
     });
     boss.on('error', this.onError);
     await boss.start();
-    // A chunk is idempotent (its rows are replaced), but a failure marks the run failed instead
-    // of retrying: the next import or settings change, or a registrar, starts a new run.
+    // A chunk's rows commit with its done mark, so a chunk is never stored twice; still, a failure
+    // marks the run failed instead of retrying: the next import or settings change, or a
+    // registrar, starts a new run.
     await boss.createQueue(SCORING_QUEUE, {
       name: SCORING_QUEUE,
       retryLimit: 0,

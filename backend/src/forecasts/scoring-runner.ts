@@ -6,6 +6,8 @@ import {
   interval,
   scoreBatch,
   type ForecastStudent,
+  type Model,
+  type Settings,
 } from '@kinpath/engine';
 import type { Pool, PoolClient } from 'pg';
 import { from as copyFrom } from 'pg-copy-streams';
@@ -13,13 +15,12 @@ import { Readable } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
 import { engineSettings } from '../model/engine-settings';
 import {
-  completedTermBefore,
+  eligibleElectives,
   enrolments,
-  isEligible,
   loadCohort,
   modelBefore,
   naiveForecast,
-  passedBefore,
+  outlineRun,
   planPart,
   studentIndex,
   type CohortData,
@@ -27,6 +28,8 @@ import {
   type ScoringPart,
 } from './cohort';
 import { betaSentence, studentKey } from './forecast-rules';
+import { CopyBinaryWriter, int4Field, textField, uuidField } from './copy-binary';
+import { PhaseClock } from './phase-clock';
 import type { ScoringJob } from './scoring-queue';
 
 /** Beta when no completed term exists to calibrate on. */
@@ -46,8 +49,6 @@ interface RunRow {
 }
 
 export interface RunnerOptions {
-  /** Worker threads per chunk (the engine's scoreBatch). */
-  threads: number;
   /** Names this process in the chunk table. */
   worker: string;
   log: (message: string) => void;
@@ -55,10 +56,22 @@ export interface RunnerOptions {
 
 const PHASE: Record<ScoringPart, 1 | 2> = { calibration: 1, backtest: 1, forecast: 2 };
 
+const RESULT_COLUMNS = `run_id, part, seq, student_key, course_code, expected_load, fit,
+  predicted_grade, predicted_satisfaction, kin_grade, kin_satisfaction, probability`;
+
+/** What scoring a chunk needs, all kept by the process between chunks. */
+interface ChunkInput {
+  data: CohortData;
+  plan: PartPlan;
+  model: Model;
+  settings: Settings;
+}
+
 /**
  * Does the scoring jobs: the same code in every worker process. Each process reads the cohort
- * from the database itself (kept while the term data stays the same), so processes on other
- * machines sharing the database can join a run.
+ * from the database itself and builds the models from it (both kept while the term data stays
+ * the same), so processes on other machines sharing the database can join a run. A process
+ * scores in its own thread: more processes are what finish a run sooner.
  */
 export class ScoringRunner {
   private cohort: CohortData | null = null;
@@ -96,7 +109,7 @@ export class ScoringRunner {
   }
 
   /** The cohort of the run's data stamp; null when the term data has moved on since the run began. */
-  private async data(run: RunRow): Promise<CohortData | null> {
+  private async data(run: RunRow, clock: PhaseClock): Promise<CohortData | null> {
     if (this.cohort?.stamp !== run.data_stamp) {
       const client = await this.pool.connect();
       try {
@@ -110,17 +123,22 @@ export class ScoringRunner {
       } finally {
         client.release();
       }
+      clock.lap('cohort');
     }
     if (this.cohort.stamp !== run.data_stamp) {
-      // A newer run follows the change; this one would mix old and new data.
-      await this.pool.query(
-        `UPDATE scoring_runs SET status = 'superseded', finished_at = now()
-         WHERE id = $1 AND status IN ('queued', 'scoring', 'finalising')`,
-        [run.id],
-      );
+      await this.supersede(run.id);
       return null;
     }
     return this.cohort;
+  }
+
+  /** The term data changed since the run began: a newer run follows, this one would mix both. */
+  private async supersede(runId: string): Promise<void> {
+    await this.pool.query(
+      `UPDATE scoring_runs SET status = 'superseded', finished_at = now()
+       WHERE id = $1 AND status IN ('queued', 'scoring', 'finalising')`,
+      [runId],
+    );
   }
 
   private planFor(data: CohortData, run: RunRow, part: ScoringPart): PartPlan {
@@ -150,41 +168,31 @@ export class ScoringRunner {
     return s;
   }
 
+  /**
+   * Splits the run into chunks. Counted in SQL, not from the cohort, so it is quick and every
+   * worker process reads the cohort at the same time, for its first chunk.
+   */
   private async plan(runId: string): Promise<void> {
+    const clock = new PhaseClock();
     const run = await this.run(runId);
     if (!run || run.status !== 'queued') return;
-    const data = await this.data(run);
-    if (!data) return;
-    const backtest = run.parts.includes('backtest') ? completedTermBefore(data, run.term) : null;
-    const calibration =
-      backtest && run.parts.includes('calibration') ? completedTermBefore(data, backtest) : null;
-    run.backtest_term = backtest;
-    run.calibration_term = calibration;
-    const parts: ScoringPart[] = ['forecast'];
-    if (backtest) parts.push('backtest');
-    if (calibration) parts.push('calibration');
     const chunks: { part: ScoringPart; seq: number; first: number; count: number }[] = [];
-    let forecastStudents = 0;
-    for (const part of parts) {
-      const plan = this.planFor(data, run, part);
-      if (part === 'forecast') forecastStudents = plan.students.length;
-      for (let first = 0, seq = 0; first < plan.students.length; first += run.chunk_size, seq++) {
-        chunks.push({
-          part,
-          seq,
-          first,
-          count: Math.min(run.chunk_size, plan.students.length - first),
-        });
-      }
-    }
     const client = await this.pool.connect();
     try {
+      const outline = await outlineRun(client, run.term, run.parts);
+      clock.lap('outline');
+      if (outline.stamp !== run.data_stamp) return await this.supersede(run.id);
+      for (const [part, students] of Object.entries(outline.students) as [ScoringPart, number][]) {
+        for (let first = 0, seq = 0; first < students; first += run.chunk_size, seq++) {
+          chunks.push({ part, seq, first, count: Math.min(run.chunk_size, students - first) });
+        }
+      }
       await client.query('BEGIN');
       const { rowCount } = await client.query(
         `UPDATE scoring_runs SET status = 'scoring', started_at = now(), chunks_total = $2,
            backtest_term = $3, calibration_term = $4, students = $5
          WHERE id = $1 AND status = 'queued'`,
-        [run.id, chunks.length, backtest, calibration, forecastStudents],
+        [run.id, chunks.length, outline.backtest, outline.calibration, outline.students.forecast],
       );
       if (rowCount !== 1) {
         await client.query('ROLLBACK');
@@ -204,6 +212,8 @@ export class ScoringRunner {
           ],
         );
       }
+      clock.lap('store');
+      await recordPhases(client, run.id, clock, 'plan');
       await client.query('COMMIT');
     } catch (error) {
       await client.query('ROLLBACK').catch(() => undefined);
@@ -217,95 +227,87 @@ export class ScoringRunner {
   }
 
   private async chunk(runId: string, part: ScoringPart, seq: number): Promise<void> {
+    const clock = new PhaseClock();
     const run = await this.run(runId);
     if (!run || run.status !== 'scoring') return;
     const {
       rows: [chunk],
-    } = await this.pool.query<{ first: number; count: number; status: string; phase: number }>(
-      `SELECT first, count, status, phase FROM scoring_chunks
-       WHERE run_id = $1 AND part = $2 AND seq = $3`,
+    } = await this.pool.query<{
+      first: number;
+      count: number;
+      status: string;
+      phase: number;
+      students: number;
+    }>(
+      `SELECT first, count, status, phase,
+         (SELECT max(first + count) FROM scoring_chunks
+          WHERE run_id = $1 AND part = $2) AS students
+       FROM scoring_chunks WHERE run_id = $1 AND part = $2 AND seq = $3`,
       [runId, part, seq],
     );
     if (!chunk || chunk.status === 'done') return;
-    const data = await this.data(run);
+    clock.lap('job');
+    const data = await this.data(run, clock);
     if (!data) return;
     const plan = this.planFor(data, run, part);
-    const started = Date.now();
-    const students = plan.students.slice(chunk.first, chunk.first + chunk.count);
+    if (plan.students.length !== chunk.students) {
+      throw new Error(
+        `The ${part} population read from the cohort (${plan.students.length}) is not the planned one (${chunk.students}).`,
+      );
+    }
+    clock.lap('plan');
     const settings = engineSettings(await this.settingsOf(run.settings_version));
     const model = modelBefore(data, plan.term);
-    // Every offered elective is scored for everyone (the engine takes one course list per
-    // batch); eligibility then picks each student's own set.
-    const scores = await scoreBatch(
-      model,
-      { students, courses: plan.electives, includeTaken: true, settings },
-      { workers: this.options.threads, chunkSize: 16 },
-    );
-    const beta = part === 'forecast' ? run.beta : null;
-    const lines: string[] = [];
-    let rows = 0;
-    for (let x = 0; x < students.length; x++) {
-      const s = scores[x];
-      const passed = passedBefore(data, this.index?.get(students[x]), plan.term);
-      const load = plan.loads[chunk.first + x];
-      const keep: number[] = [];
-      for (let t = 0; t < s.courses.length; t++) {
-        if (isEligible(data, plan.electives[t], passed, plan.term)) keep.push(t);
-      }
-      const fits = keep.map((t) => s.fit[t]);
-      const p = beta === null ? null : choiceProbabilities(fits, load, beta);
-      const key = studentKey(students[x]);
-      keep.forEach((t, i) => {
-        lines.push(
-          [
-            runId,
-            part,
-            seq,
-            key,
-            plan.electives[t],
-            load,
-            num(s.fit[t]),
-            num(s.grade?.value[t]),
-            num(s.satisfaction?.value[t]),
-            s.grade?.kin[t] ?? 0,
-            s.satisfaction?.kin[t] ?? 0,
-            p ? num(p[i]) : NULL,
-          ].join('\t') + '\n',
-        );
-      });
-      rows += keep.length;
-    }
-    const scoringMs = Date.now() - started;
+    clock.lap('model');
     const client = await this.pool.connect();
     let phaseDone = false;
+    let rows = 0;
     try {
       await client.query('BEGIN');
-      await client.query(
-        `DELETE FROM scoring_results WHERE run_id = $1 AND part = $2 AND seq = $3`,
+      // A chunk's rows commit together with its done mark, so a chunk not yet done has none;
+      // the lock keeps a second process off it meanwhile.
+      const mine = await client.query<{ status: string }>(
+        `SELECT status FROM scoring_chunks WHERE run_id = $1 AND part = $2 AND seq = $3
+         FOR NO KEY UPDATE`,
         [runId, part, seq],
       );
+      if (!mine.rows[0] || mine.rows[0].status === 'done') {
+        await client.query('ROLLBACK');
+        return;
+      }
+      clock.lap('store');
+      // Rows go to the database while the next students are scored.
+      const tally = { rows: 0 };
       await pipeline(
-        Readable.from(batches(lines)),
+        Readable.from(
+          this.scoredRows(run, part, seq, chunk, { data, plan, model, settings }, clock, tally),
+        ),
         client.query(
-          copyFrom(
-            `COPY scoring_results (run_id, part, seq, student_key, course_code, expected_load, fit,
-               predicted_grade, predicted_satisfaction, kin_grade, kin_satisfaction, probability)
-             FROM STDIN`,
-          ),
+          copyFrom(`COPY scoring_results (${RESULT_COLUMNS}) FROM STDIN (FORMAT binary)`),
         ),
       );
-      const marked = await client.query(
+      rows = tally.rows;
+      clock.lap('store');
+      await client.query(
         `UPDATE scoring_chunks SET status = 'done', worker = $4, rows = $5, scoring_ms = $6,
-           finished_at = now()
-         WHERE run_id = $1 AND part = $2 AND seq = $3 AND status <> 'done'`,
-        [runId, part, seq, this.options.worker, rows, scoringMs],
+           phase_ms = $7, finished_at = now()
+         WHERE run_id = $1 AND part = $2 AND seq = $3`,
+        [
+          runId,
+          part,
+          seq,
+          this.options.worker,
+          rows,
+          Math.round(clock.get('scoring')),
+          JSON.stringify(clock.toJSON()),
+        ],
       );
       // The run's row lock orders the chunk ends, so exactly one sees its phase complete.
       const locked = await client.query<{ status: string }>(
-        `SELECT status FROM scoring_runs WHERE id = $1 FOR UPDATE`,
+        `SELECT status FROM scoring_runs WHERE id = $1 FOR NO KEY UPDATE`,
         [runId],
       );
-      if (marked.rowCount !== 1 || locked.rows[0]?.status !== 'scoring') {
+      if (locked.rows[0]?.status !== 'scoring') {
         await client.query('ROLLBACK');
         return;
       }
@@ -324,10 +326,73 @@ export class ScoringRunner {
     } finally {
       client.release();
     }
+    const ms = clock.toJSON();
     this.options.log(
-      `Scored ${part} chunk ${seq} of run ${runId}: ${students.length} students, ${rows} rows in ${scoringMs} ms (${Date.now() - started} ms with storing).`,
+      `Scored ${part} chunk ${seq} of run ${runId}: ${chunk.count} students, ${rows} rows; ms per phase ${JSON.stringify(ms)}.`,
     );
     if (phaseDone) await this.send([{ kind: 'finalise', runId, phase: chunk.phase === 1 ? 1 : 2 }]);
+  }
+
+  /**
+   * The chunk's students scored one at a time over their own eligible electives, as COPY data:
+   * one piece per student, made when the database is ready for more. Counts the rows in `tally`.
+   */
+  private scoredRows(
+    run: RunRow,
+    part: ScoringPart,
+    seq: number,
+    chunk: { first: number; count: number },
+    { data, plan, model, settings }: ChunkInput,
+    clock: PhaseClock,
+    tally: { rows: number },
+  ): AsyncGenerator<Buffer> {
+    const beta = part === 'forecast' ? run.beta : null;
+    const courses = plan.electives.map(textField);
+    const prefix = Buffer.concat([uuidField(run.id), textField(part), int4Field(seq)]);
+    const index = this.index;
+    return (async function* () {
+      const out = new CopyBinaryWriter();
+      for (let x = chunk.first; x < chunk.first + chunk.count; x++) {
+        const pseudonym = plan.students[x];
+        const eligible = eligibleElectives(data, index?.get(pseudonym), plan);
+        clock.lap('eligibility');
+        const [s] = await scoreBatch(
+          model,
+          {
+            students: [pseudonym],
+            courses: eligible.map((t) => plan.electives[t]),
+            includeTaken: true,
+            settings,
+          },
+          { workers: 0 },
+        );
+        clock.lap('scoring');
+        const load = plan.loads[x];
+        const p = beta === null ? null : choiceProbabilities(s.fit, load, beta);
+        const key = uuidField(studentKey(pseudonym));
+        for (let t = 0; t < eligible.length; t++) {
+          out.row(12);
+          out.raw(prefix);
+          out.raw(key);
+          out.raw(courses[eligible[t]]);
+          out.float8(load);
+          out.float8(s.fit[t]);
+          out.float8(s.grade?.value[t]);
+          out.float8(s.satisfaction?.value[t]);
+          out.int4(s.grade?.kin[t] ?? 0);
+          out.int4(s.satisfaction?.kin[t] ?? 0);
+          if (p) out.float8(p[t]);
+          else out.null();
+        }
+        tally.rows += eligible.length;
+        clock.lap('rows');
+        yield out.take();
+        // Back here once the database has room for more.
+        clock.lap('store');
+      }
+      out.end();
+      yield out.take();
+    })();
   }
 
   /** The stored rows of a part as the engine's forecast students (sorted, so order is fixed). */
@@ -372,19 +437,22 @@ export class ScoringRunner {
   }
 
   private async finalise(runId: string, phase: 1 | 2): Promise<void> {
+    const clock = new PhaseClock();
     const run = await this.run(runId);
     if (!run || run.status !== 'scoring') return;
-    const data = await this.data(run);
-    if (!data) return;
-    if (phase === 1) await this.finaliseBacktest(run, data);
-    else await this.finaliseForecast(run, data);
+    if (phase === 1) return this.finaliseBacktest(run, clock);
+    const data = await this.data(run, clock);
+    if (data) await this.finaliseForecast(run, data, clock);
   }
 
   /**
    * Phase 1 ends: beta for the backtest from the term before it (in-sample when there is none),
    * the backtest's per-course forecast, and beta for the forecast from the backtest term.
    */
-  private async finaliseBacktest(run: RunRow, data: CohortData): Promise<void> {
+  private async finaliseBacktest(run: RunRow, clock: PhaseClock): Promise<void> {
+    // Only a backtest needs the cohort; without one the forecast chunks go out at once.
+    const data = run.backtest_term ? await this.data(run, clock) : null;
+    if (run.backtest_term && !data) return;
     let beta = run.beta ?? FALLBACK_BETA;
     let method = betaSentence(beta, null);
     let backtestBeta: number | null = null;
@@ -392,19 +460,23 @@ export class ScoringRunner {
     const client = await this.pool.connect();
     try {
       await client.query('BEGIN');
-      if (run.backtest_term) {
+      if (run.backtest_term && data) {
         const term = run.backtest_term;
         const actual = this.actual(data, term);
         const bt = await this.partStudents(run.id, 'backtest');
+        clock.lap('read');
         const forward = calibrateBeta(bt.students, actual);
+        clock.lap('calibration');
         if (run.calibration_term) {
           const cal = await this.partStudents(run.id, 'calibration');
+          clock.lap('read');
           backtestBeta = calibrateBeta(cal.students, this.actual(data, run.calibration_term)).beta;
           backtestMethod = betaSentence(backtestBeta, run.calibration_term);
         } else {
           backtestBeta = forward.beta;
           backtestMethod = betaSentence(backtestBeta, term, true);
         }
+        clock.lap('calibration');
         const demand = new Map(forecastDemand(bt.students, backtestBeta).map((d) => [d.course, d]));
         const naive = naiveForecast(data, term);
         const courses = [...actual.keys()];
@@ -443,7 +515,7 @@ export class ScoringRunner {
         });
         await client.query(
           `UPDATE scoring_results r SET probability = u.p
-           FROM unnest($2::text[], $3::text[], $4::float8[]) AS u(s, c, p)
+           FROM unnest($2::uuid[], $3::text[], $4::float8[]) AS u(s, c, p)
            WHERE r.run_id = $1 AND r.part = 'backtest' AND r.student_key = u.s AND r.course_code = u.c`,
           [run.id, sk, cc, pp],
         );
@@ -456,6 +528,8 @@ export class ScoringRunner {
          WHERE id = $1 AND status = 'scoring'`,
         [run.id, beta, method, backtestBeta, backtestMethod],
       );
+      clock.lap('store');
+      await recordPhases(client, run.id, clock, 'finalise 1');
       await client.query('COMMIT');
     } catch (error) {
       await client.query('ROLLBACK').catch(() => undefined);
@@ -467,14 +541,14 @@ export class ScoringRunner {
       `SELECT seq FROM scoring_chunks WHERE run_id = $1 AND phase = 2 ORDER BY seq`,
       [run.id],
     );
-    if (rows.length === 0) return this.finaliseForecast({ ...run, beta }, data);
+    if (rows.length === 0) return this.finalise(run.id, 2);
     await this.send(
       rows.map((r) => ({ kind: 'chunk', runId: run.id, part: 'forecast', seq: r.seq })),
     );
   }
 
   /** Phase 2 ends: expected demand and variance per elective are sums over the stored rows. */
-  private async finaliseForecast(run: RunRow, data: CohortData): Promise<void> {
+  private async finaliseForecast(run: RunRow, data: CohortData, clock: PhaseClock): Promise<void> {
     const { rows } = await this.pool.query<{ course_code: string; e: number; v: number }>(
       // Summed in a fixed order, so the figures do not depend on which process stored what when.
       `SELECT course_code, sum(probability ORDER BY student_key) AS e,
@@ -487,6 +561,7 @@ export class ScoringRunner {
     const expected = courses.map((c) => Number(sums.get(c)?.e ?? 0));
     const variance = courses.map((c) => Number(sums.get(c)?.v ?? 0));
     const bounds = courses.map((_, i) => interval(expected[i], variance[i]));
+    clock.lap('sums');
     const client = await this.pool.connect();
     try {
       await client.query('BEGIN');
@@ -501,10 +576,11 @@ export class ScoringRunner {
       );
       const done = await client.query(
         `UPDATE scoring_runs SET status = 'done', finished_at = now(),
-           rows = (SELECT count(*) FROM scoring_results WHERE run_id = $1)
+           rows = (SELECT coalesce(sum(rows), 0) FROM scoring_chunks WHERE run_id = $1)
          WHERE id = $1 AND status = 'scoring'`,
         [run.id],
       );
+      clock.lap('store');
       if (done.rowCount === 1) {
         // Earlier runs of the term keep their per-course figures; their scored rows can go.
         await client.query(
@@ -513,7 +589,9 @@ export class ScoringRunner {
              WHERE term = $1 AND id <> $2 AND status IN ('done', 'superseded', 'failed'))`,
           [run.term, run.id],
         );
+        clock.lap('cleanup');
       }
+      await recordPhases(client, run.id, clock, 'finalise 2');
       await client.query('COMMIT');
     } catch (error) {
       await client.query('ROLLBACK').catch(() => undefined);
@@ -525,15 +603,15 @@ export class ScoringRunner {
   }
 }
 
-const NULL = '\\N';
-
-function num(x: number | undefined): string {
-  return x === undefined || !Number.isFinite(x) ? NULL : String(x);
+/** Adds a planning or finalising job's milliseconds per phase to the run's, under `job`. */
+async function recordPhases(
+  client: PoolClient,
+  runId: string,
+  clock: PhaseClock,
+  job: string,
+): Promise<void> {
+  await client.query(
+    `UPDATE scoring_runs SET phase_ms = coalesce(phase_ms, '{}') || $2::jsonb WHERE id = $1`,
+    [runId, JSON.stringify(clock.toJSON(`${job}: `))],
+  );
 }
-
-/** COPY input in pieces of a few thousand lines. */
-function* batches(lines: string[]): Generator<string> {
-  for (let i = 0; i < lines.length; i += 4096) yield lines.slice(i, i + 4096).join('');
-}
-
-export type { PoolClient };

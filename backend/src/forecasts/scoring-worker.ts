@@ -3,8 +3,8 @@
  *
  *   node backend/dist/forecasts/scoring-worker.js     (the server's KINPATH_DB_* settings)
  *
- * Start more of them, here or on other machines sharing the database, to finish a run sooner.
- * KINPATH_SCORING_THREADS sets the engine's worker threads per process (default 1).
+ * Start more of them, here or on other machines sharing the database, to finish a run sooner:
+ * each scores in its own thread, so one process per core.
  */
 import { hostname } from 'node:os';
 import { Pool } from 'pg';
@@ -40,7 +40,6 @@ async function main(): Promise<void> {
   const queue = new ScoringQueue(db, (error) => log(`job queue: ${error.message}`));
   await queue.start();
   const runner = new ScoringRunner(pool, (jobs) => queue.send(jobs), {
-    threads: Math.max(0, Number(process.env.KINPATH_SCORING_THREADS ?? 1) || 0),
     worker: `${hostname()}:${process.pid}`,
     log,
   });

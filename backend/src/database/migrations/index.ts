@@ -5,6 +5,7 @@ import { Advising1796184710000 } from './1796184710000-Advising';
 import { AccountSecurity1796184850000 } from './1796184850000-AccountSecurity';
 import { ModelEvaluations1796184937000 } from './1796184937000-ModelEvaluations';
 import { DemandOutlook1796185100000 } from './1796185100000-DemandOutlook';
+import { ScoringStorage1796185200000 } from './1796185200000-ScoringStorage';
 
 /** Every migration, oldest first. A new migration is added here as well as to this folder. */
 export const MIGRATIONS = [
@@ -15,4 +16,5 @@ export const MIGRATIONS = [
   AccountSecurity1796184850000,
   ModelEvaluations1796184937000,
   DemandOutlook1796185100000,
+  ScoringStorage1796185200000,
 ];
