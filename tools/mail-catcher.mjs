@@ -12,10 +12,38 @@ import { SMTPServer } from 'smtp-server';
 import { simpleParser } from 'mailparser';
 import { profileDir } from './lib/paths.mjs';
 
-export const MAIL_DEFAULTS = {
+// Each profile's ports, and the variables that move them (two instances on one machine).
+export const MAIL_PORT_VARIABLES = {
+  start: { smtpPort: 'KINPATH_SMTP_PORT', httpPort: 'KINPATH_MAIL_HTTP_PORT' },
+  test: { smtpPort: 'KINPATH_TEST_SMTP_PORT', httpPort: 'KINPATH_TEST_MAIL_HTTP_PORT' },
+};
+const fallbackPorts = {
   start: { smtpPort: 2525, httpPort: 2580 },
   test: { smtpPort: 2535, httpPort: 2590 },
 };
+export const MAIL_DEFAULTS = Object.fromEntries(
+  Object.entries(fallbackPorts).map(([profile, ports]) => [
+    profile,
+    {
+      smtpPort: Number(process.env[MAIL_PORT_VARIABLES[profile].smtpPort] ?? ports.smtpPort),
+      httpPort: Number(process.env[MAIL_PORT_VARIABLES[profile].httpPort] ?? ports.httpPort),
+      variables: MAIL_PORT_VARIABLES[profile],
+    },
+  ]),
+);
+
+/** Listens on loopback; a port in use becomes one sentence naming the variable that moves it. */
+function listenOn(server, port, variable) {
+  return new Promise((resolve, reject) => {
+    server.once('error', (error) => {
+      if (error && error.code === 'EADDRINUSE') {
+        const message = `kinpath: port ${port} on 127.0.0.1 is in use; set ${variable ?? 'another port'} to a free port.`;
+        reject(Object.assign(new Error(message), { code: 'EADDRINUSE', friendly: true }));
+      } else reject(error);
+    });
+    server.listen(port, '127.0.0.1', resolve);
+  });
+}
 
 export function mailDir(profile) {
   return join(profileDir(profile), 'mail');
@@ -35,7 +63,7 @@ export function readMessages(dir) {
 }
 
 /** Starts the SMTP listener and a small read-only web page of the messages on loopback. */
-export async function startMailCatcher({ smtpPort, httpPort, dir }) {
+export async function startMailCatcher({ smtpPort, httpPort, dir, variables = {} }) {
   mkdirSync(dir, { recursive: true });
   let sequence = 0;
   const smtp = new SMTPServer({
@@ -62,10 +90,7 @@ export async function startMailCatcher({ smtpPort, httpPort, dir }) {
         .catch(callback);
     },
   });
-  await new Promise((resolve, reject) => {
-    smtp.once('error', reject);
-    smtp.listen(smtpPort, '127.0.0.1', resolve);
-  });
+  await listenOn(smtp, smtpPort, variables.smtpPort);
   const http = createServer((req, res) => {
     const messages = readMessages(dir);
     if (req.url?.startsWith('/messages.json')) {
@@ -86,10 +111,12 @@ export async function startMailCatcher({ smtpPort, httpPort, dir }) {
       `<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Kinpath caught mail</title></head><body><main><h1>Caught mail (${messages.length})</h1>${rows || '<p>No messages yet.</p>'}</main></body></html>`,
     );
   });
-  await new Promise((resolve, reject) => {
-    http.once('error', reject);
-    http.listen(httpPort, '127.0.0.1', resolve);
-  });
+  try {
+    await listenOn(http, httpPort, variables.httpPort);
+  } catch (error) {
+    await new Promise((r) => smtp.close(r));
+    throw error;
+  }
   return {
     url: `http://127.0.0.1:${httpPort}`,
     close: () =>

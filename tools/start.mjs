@@ -24,12 +24,14 @@ ensureDatabase(db);
 buildAll();
 const demoDir = demo ? ensureDemoFiles(join(dataDir, 'demo')) : undefined;
 
-const smtpPort = Number(process.env.KINPATH_SMTP_PORT ?? MAIL_DEFAULTS.start.smtpPort);
-const mail = await startMailCatcher({
-  smtpPort,
-  httpPort: Number(process.env.KINPATH_MAIL_HTTP_PORT ?? MAIL_DEFAULTS.start.httpPort),
-  dir: mailDir('start'),
-});
+const smtpPort = MAIL_DEFAULTS.start.smtpPort;
+const mail = await startMailCatcher({ ...MAIL_DEFAULTS.start, dir: mailDir('start') }).catch(
+  (error) => {
+    if (!error.friendly) throw error;
+    console.error(error.message);
+    process.exit(1);
+  },
+);
 
 const server = spawn(process.execPath, [join(repoRoot, 'backend', 'dist', 'main.js')], {
   cwd: repoRoot,

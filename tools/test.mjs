@@ -41,7 +41,11 @@ mkdirSync(dataDir, { recursive: true });
 const demoDir = ensureDemoFiles(join(profileDir('test'), 'demo'));
 const mailFolder = mailDir('test');
 rmSync(mailFolder, { recursive: true, force: true });
-const mail = await startMailCatcher({ ...MAIL_DEFAULTS.test, dir: mailFolder });
+const mail = await startMailCatcher({ ...MAIL_DEFAULTS.test, dir: mailFolder }).catch((error) => {
+  if (!error.friendly) throw error;
+  console.error(error.message);
+  process.exit(1);
+});
 
 const port = process.env.KINPATH_TEST_PORT ?? '3199';
 const serverEnv = {
