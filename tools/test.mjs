@@ -82,6 +82,8 @@ try {
       '--reporter=default',
       '--reporter=json',
       `--outputFile.json=${reportFile}`,
+      // `npm test -- <filters>` narrows the run (files or `--project NAME`) while developing.
+      ...process.argv.slice(2),
     ],
     {
       cwd: repoRoot,
