@@ -4,6 +4,7 @@ import { NestFactory } from '@nestjs/core';
 import type { NestExpressApplication } from '@nestjs/platform-express';
 import helmet from 'helmet';
 import { AppModule } from './app.module';
+import { rejectBadText, verifyJsonDepth } from './common/input-checks';
 import { ConfigError, loadConfig, logLevelsFrom, type AppConfig } from './config/config';
 import { SetupService } from './setup/setup.service';
 import { setUpOpenApi } from './web/openapi';
@@ -38,8 +39,10 @@ async function bootstrap(): Promise<void> {
   // SHA-1 of every answer (about 1 ms for a 3,000-elective list).
   app.set('etag', false);
   app.set('trust proxy', 'loopback');
-  app.useBodyParser('json', { limit: '1mb' });
+  // The depth check runs on the raw bytes: JSON.parse would overflow the stack first.
+  app.useBodyParser('json', { limit: '1mb', verify: verifyJsonDepth });
   app.useBodyParser('urlencoded', { limit: '64kb', extended: false });
+  app.use('/api', rejectBadText);
   // API answers hold personal data: no browser or proxy may keep them.
   app.use(
     '/api',

@@ -9,6 +9,7 @@ import {
 } from '@nestjs/common';
 import type { Response } from 'express';
 import { STATUS_CODES } from 'node:http';
+import { INPUT_REFUSAL_MESSAGES } from './input-checks';
 
 /**
  * Every error leaves as `{ statusCode, message, error }` (api.md); anything not
@@ -66,7 +67,7 @@ export function toApiError(exception: unknown): ApiError {
         ? 'The request body is not valid JSON.'
         : type === 'entity.too.large'
           ? 'The request body is too large.'
-          : (STATUS_CODES[status] ?? 'Bad request');
+          : (INPUT_REFUSAL_MESSAGES[type ?? ''] ?? STATUS_CODES[status] ?? 'Bad request');
     return { statusCode: status, message, error: STATUS_CODES[status] ?? 'Error' };
   }
   if (isDatabaseUnavailable(exception)) {

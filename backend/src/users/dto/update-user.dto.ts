@@ -13,9 +13,12 @@ import {
 } from 'class-validator';
 import { DEPARTMENT_FORM } from './create-user.dto';
 
+// Absent fields stay as they are; null is not absent (only department may be cleared).
+const present = (_: object, value: unknown) => value !== undefined;
+
 export class UpdateUserDto {
   @ApiPropertyOptional({ enum: ROLES })
-  @IsOptional()
+  @ValidateIf(present)
   @IsIn(ROLES, { message: `Role must be one of ${ROLES.join(', ')}.` })
   role?: Role;
 
@@ -28,15 +31,15 @@ export class UpdateUserDto {
   department?: string | null;
 
   @ApiPropertyOptional()
-  @IsOptional()
+  @ValidateIf(present)
   @Transform(({ value }) => (typeof value === 'string' ? value.trim() : value))
-  @IsString()
+  @IsString({ message: 'Display name must be text.' })
   @MinLength(1, { message: 'Display name must not be empty.' })
   @MaxLength(120)
   displayName?: string;
 
   @ApiPropertyOptional()
-  @IsOptional()
+  @ValidateIf(present)
   @IsBoolean({ message: 'Active must be true or false.' })
   active?: boolean;
 }
