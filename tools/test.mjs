@@ -63,6 +63,10 @@ const serverEnv = {
   KINPATH_SMTP_HOST: '127.0.0.1',
   KINPATH_SMTP_PORT: String(MAIL_DEFAULTS.test.smtpPort),
   KINPATH_STATIC_DIR: join(repoRoot, 'frontend', 'dist'),
+  // The tests stand in for a proxy: X-Forwarded-For gives each test its own address bucket.
+  KINPATH_TRUSTED_PROXIES: 'loopback',
+  // Many tests share this server from one address; the limits are proved on servers of their own.
+  KINPATH_RATE_LIMIT_SCALE: '100',
 };
 
 let server;

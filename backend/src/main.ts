@@ -38,7 +38,9 @@ async function bootstrap(): Promise<void> {
   // API answers are no-store, so no client ever revalidates them; an ETag would cost a
   // SHA-1 of every answer (about 1 ms for a 3,000-elective list).
   app.set('etag', false);
-  app.set('trust proxy', 'loopback');
+  // X-Forwarded-For decides the client address every per-address limit counts; only the
+  // proxies named in KINPATH_TRUSTED_PROXIES may set it.
+  app.set('trust proxy', config.trustedProxies.length > 0 ? config.trustedProxies : false);
   // The depth check runs on the raw bytes: JSON.parse would overflow the stack first.
   app.useBodyParser('json', { limit: '1mb', verify: verifyJsonDepth });
   app.useBodyParser('urlencoded', { limit: '64kb', extended: false });

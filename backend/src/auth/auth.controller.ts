@@ -1,5 +1,5 @@
 import type { LoginResponse, PasswordSetResponse, UserSummary } from '@kinpath/contracts';
-import { Body, Controller, Get, HttpCode, Ip, Post, UseGuards } from '@nestjs/common';
+import { Body, Controller, Get, HttpCode, Ip, Post } from '@nestjs/common';
 import {
   ApiAcceptedResponse,
   ApiBadRequestResponse,
@@ -7,10 +7,8 @@ import {
   ApiOkResponse,
   ApiOperation,
   ApiTags,
-  ApiTooManyRequestsResponse,
   ApiUnauthorizedResponse,
 } from '@nestjs/swagger';
-import { ThrottlerGuard } from '@nestjs/throttler';
 import type { User } from '../users/entities/user.entity';
 import { InvitationsService } from '../users/invitations.service';
 import { PasswordResetService } from '../users/password-reset.service';
@@ -23,6 +21,7 @@ import {
   RequestPasswordResetDto,
 } from './dto/account.dto';
 import { LoginDto } from './dto/login.dto';
+import { RateLimit } from './rate-limit';
 import type { RequestSession } from './sessions';
 
 @ApiTags('auth')
@@ -35,18 +34,16 @@ export class AuthController {
   ) {}
 
   @Public()
+  @RateLimit('signIn')
   @Post('login')
   @HttpCode(200)
   @ApiOperation({
     summary: 'Sign in with e-mail and password; returns a bearer token (15 minutes).',
     description:
-      'Renew the token with POST /api/auth/refresh while the user is active; a session lasts at most 12 hours. After 5 failed attempts for one account or 20 from one address within 15 minutes, sign-in answers 429 for 15 minutes.',
+      'Renew the token with POST /api/auth/refresh while the user is active; a session lasts at most 12 hours. After 5 failed attempts for one account from one address, or 20 from one address, within 15 minutes, sign-in from that address answers 429 for 15 minutes (for that account, or for all). An account is never paused for everyone: after 5 failures from anywhere, each attempt on it waits first (1 s, doubling, at most 8 s) until its correct password is given.',
   })
   @ApiOkResponse({ description: '{ accessToken, user, expiresAt, sessionExpiresAt }' })
   @ApiUnauthorizedResponse({ description: 'Wrong e-mail or password (one message for both).' })
-  @ApiTooManyRequestsResponse({
-    description: 'Too many failed attempts; the message says how long to wait.',
-  })
   login(@Body() dto: LoginDto, @Ip() address: string): Promise<LoginResponse> {
     return this.auth.signIn(dto.email, dto.password, address);
   }
@@ -81,7 +78,7 @@ export class AuthController {
   }
 
   @Public()
-  @UseGuards(ThrottlerGuard)
+  @RateLimit('accountLinks')
   @Post('invitations/accept')
   @HttpCode(200)
   @ApiOperation({ summary: 'Set the password through an invitation link; activates the account.' })
@@ -93,7 +90,7 @@ export class AuthController {
   }
 
   @Public()
-  @UseGuards(ThrottlerGuard)
+  @RateLimit('accountLinks')
   @Post('password-reset')
   @HttpCode(202)
   @ApiOperation({
@@ -109,7 +106,7 @@ export class AuthController {
   }
 
   @Public()
-  @UseGuards(ThrottlerGuard)
+  @RateLimit('accountLinks')
   @Post('password-reset/confirm')
   @HttpCode(200)
   @ApiOperation({

@@ -11,6 +11,7 @@ import { JwtSecret } from './jwt-secret';
 import { RolesGuard } from './roles.guard';
 import { SessionsService } from './sessions.service';
 import { SignInThrottleService } from './sign-in-throttle.service';
+import { RateLimitGuard, rateLimitMessage } from './rate-limit';
 import { JwtStrategy } from './strategies/jwt.strategy';
 
 @Module({
@@ -19,11 +20,11 @@ import { JwtStrategy } from './strategies/jwt.strategy';
     PassportModule,
     // The secret is passed on each call from JwtSecret, so the module itself holds none.
     JwtModule.register({}),
-    // Per address, for the public account routes (reset requests send e-mail); sign-in has
-    // its own failure counters in SignInThrottleService.
+    // Route-level request limits (RATE_LIMITS, applied with @RateLimit); each route sets its
+    // own, this default is never used alone. Sign-in failures have their own counters.
     ThrottlerModule.forRoot({
       throttlers: [{ ttl: 60_000, limit: 30 }],
-      errorMessage: 'Too many requests from this address. Wait a minute, then try again.',
+      errorMessage: (_context, detail) => rateLimitMessage(detail.timeToBlockExpire),
     }),
   ],
   controllers: [AuthController],
@@ -33,9 +34,11 @@ import { JwtStrategy } from './strategies/jwt.strategy';
     JwtStrategy,
     SessionsService,
     SignInThrottleService,
+    RateLimitGuard,
     // Order matters: the token guard sets request.user before the roles guard reads it.
     { provide: APP_GUARD, useClass: JwtAuthGuard },
     { provide: APP_GUARD, useClass: RolesGuard },
   ],
+  exports: [RateLimitGuard],
 })
 export class AuthModule {}

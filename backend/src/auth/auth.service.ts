@@ -30,7 +30,7 @@ export class AuthService {
 
   async signIn(email: string, password: string, address: string): Promise<LoginResponse> {
     const emailKey = email.trim().toLowerCase();
-    await this.throttle.assertAllowed(emailKey, address);
+    await this.throttle.admit(emailKey, address);
     const user = await this.users.findForSignIn(emailKey);
     // Compare even when there is no account, so both refusals take the same time.
     const hash = user?.passwordHash ?? (await decoyPasswordHash());
@@ -54,7 +54,7 @@ export class AuthService {
       throw new UnauthorizedException(SIGN_IN_REFUSED);
     }
 
-    await this.throttle.recordSuccess(emailKey);
+    await this.throttle.recordSuccess(emailKey, address);
     const session = await this.sessions.start(user.id);
     await this.audit.record({
       actor: user,

@@ -31,6 +31,25 @@ describe('configuration', () => {
     expect(() => loadConfig({ ...base, KINPATH_DEMO: 'maybe' })).toThrow(/'on' or 'off'/);
   });
 
+  it('trusts no proxy unless KINPATH_TRUSTED_PROXIES names some, and refuses nonsense', () => {
+    expect(loadConfig(base).trustedProxies).toEqual([]);
+    expect(
+      loadConfig({ ...base, KINPATH_TRUSTED_PROXIES: ' 10.0.0.5, 192.168.0.0/16,loopback ,::1' })
+        .trustedProxies,
+    ).toEqual(['10.0.0.5', '192.168.0.0/16', 'loopback', '::1']);
+    for (const bad of ['*', 'true', '10.0.0.0/40', 'proxy.example']) {
+      expect(() => loadConfig({ ...base, KINPATH_TRUSTED_PROXIES: bad })).toThrow(
+        /KINPATH_TRUSTED_PROXIES must list/,
+      );
+    }
+  });
+
+  it('scales request limits only by a positive KINPATH_RATE_LIMIT_SCALE', () => {
+    expect(loadConfig(base).rateLimitScale).toBe(1);
+    expect(loadConfig({ ...base, KINPATH_RATE_LIMIT_SCALE: '100' }).rateLimitScale).toBe(100);
+    expect(() => loadConfig({ ...base, KINPATH_RATE_LIMIT_SCALE: '0' })).toThrow(/above 0/);
+  });
+
   it('reads KINPATH_DEMO=off', () => {
     expect(loadConfig({ ...base, KINPATH_DEMO: 'off' }).demo).toBe(false);
   });

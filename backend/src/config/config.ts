@@ -1,4 +1,5 @@
 import { mkdirSync } from 'node:fs';
+import { isIP } from 'node:net';
 import { isAbsolute, resolve } from 'node:path';
 
 /** The repository root, found from this file in both `src/config` and `dist/config`. */
@@ -36,6 +37,13 @@ export interface AppConfig {
   publicUrl: string;
   /** Origins allowed to call the API from another site; none by default (same origin only). */
   corsOrigins: string[];
+  /**
+   * Proxies whose X-Forwarded-For is believed (addresses, CIDR ranges, or Express's names
+   * loopback, linklocal, uniquelocal); none by default, so a client cannot pick its address.
+   */
+  trustedProxies: string[];
+  /** Multiplies every route's request limit (RATE_LIMITS); 1 in real use. */
+  rateLimitScale: number;
 }
 
 type Env = Record<string, string | undefined>;
@@ -157,7 +165,41 @@ export function loadConfig(env: Env = process.env): AppConfig {
     logFormat: logFormat(env),
     publicUrl,
     corsOrigins,
+    trustedProxies: trustedProxies(env),
+    rateLimitScale: positiveNumber(env, 'KINPATH_RATE_LIMIT_SCALE', 1),
   };
+}
+
+const PROXY_NAMES = new Set(['loopback', 'linklocal', 'uniquelocal']);
+
+function trustedProxies(env: Env): string[] {
+  const entries = (text(env, 'KINPATH_TRUSTED_PROXIES') ?? '')
+    .split(',')
+    .map((entry) => entry.trim())
+    .filter(Boolean);
+  for (const entry of entries) {
+    const [address, bits, extra] = entry.split('/');
+    const family = isIP(address);
+    const okBits =
+      bits === undefined ||
+      (/^\d+$/.test(bits) && Number(bits) <= (family === 6 ? 128 : 32) && extra === undefined);
+    if (!(PROXY_NAMES.has(entry) || (family !== 0 && okBits))) {
+      throw new ConfigError(
+        `KINPATH_TRUSTED_PROXIES must list addresses, CIDR ranges or loopback, linklocal, uniquelocal, separated by commas; '${entry}' is none of these.`,
+      );
+    }
+  }
+  return entries;
+}
+
+function positiveNumber(env: Env, name: string, fallback: number): number {
+  const raw = text(env, name);
+  if (raw === undefined) return fallback;
+  const value = Number(raw);
+  if (!Number.isFinite(value) || value <= 0) {
+    throw new ConfigError(`${name} must be a number above 0, not '${raw}'.`);
+  }
+  return value;
 }
 
 function logFormat(env: Env): 'json' | 'text' {

@@ -173,13 +173,15 @@ describe('password reset', () => {
 });
 
 describe('sign-in throttling', () => {
-  it('pauses one account after 5 failures, says for how long, and audits it', async () => {
+  it('after 5 failures pauses that account from that address only, and audits it', async () => {
     const { email } = await withPassword();
-    const address = testAddress();
-    const attempt = (password: string) =>
+    const stranger = testAddress();
+    const attempt = (password: string, address: string) =>
       api().post('/api/auth/login').set('X-Forwarded-For', address).send({ email, password });
-    for (let i = 0; i < 5; i++) expect((await attempt('wrong-password-here')).status).toBe(401);
-    const paused = await attempt(GOOD_PASSWORD);
+    for (let i = 0; i < 5; i++) {
+      expect((await attempt('wrong-password-here', stranger)).status).toBe(401);
+    }
+    const paused = await attempt(GOOD_PASSWORD, stranger);
     expect(paused.status).toBe(429);
     expect(paused.body.message).toMatch(/paused for 15 minutes/);
     expect(paused.headers['retry-after']).toBe('900');
@@ -189,7 +191,32 @@ describe('sign-in throttling', () => {
       .query({ action: 'auth.sign_in_throttled', actor: email })
       .set(...bearer(admin));
     expect(trail.status).toBe(200);
-    expect(trail.body.items[0]).toMatchObject({ actorEmail: email, detail: { scope: 'account' } });
+    expect(
+      trail.body.items.map((i: { detail: { scope: string } }) => i.detail.scope).sort(),
+    ).toEqual(['account', 'account_address']);
+  });
+
+  it('never shuts the account for its owner: the right password from elsewhere gets in, slowed', async () => {
+    const { email } = await withPassword();
+    const attempt = (password: string, address: string) =>
+      api().post('/api/auth/login').set('X-Forwarded-For', address).send({ email, password });
+    // A stranger's failures from two addresses.
+    for (const address of [testAddress(), testAddress()]) {
+      for (let i = 0; i < 3; i++) {
+        expect((await attempt('wrong-password-here', address)).status).toBe(401);
+      }
+    }
+    // Six failures: each attempt on the account now waits 2 s first (1 s after the fifth,
+    // doubling), whatever its password; the owner's right one still gets in.
+    const started = Date.now();
+    const owner = await attempt(GOOD_PASSWORD, testAddress());
+    expect(owner.status, owner.text).toBe(200);
+    expect(Date.now() - started).toBeGreaterThanOrEqual(1_900);
+    // Success clears the slow-down.
+    const left = await withDatabase((db) =>
+      db.query(`SELECT 1 FROM sign_in_throttle WHERE key = $1`, [`account:${email}`]),
+    );
+    expect(left.rowCount).toBe(0);
   });
 
   it('counts only failures: a success clears the account’s counter', async () => {
