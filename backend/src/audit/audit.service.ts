@@ -1,6 +1,6 @@
 import { Injectable } from '@nestjs/common';
 import { InjectRepository } from '@nestjs/typeorm';
-import type { EntityManager, Repository } from 'typeorm';
+import { type EntityManager, MoreThan, type Repository } from 'typeorm';
 import type { User } from '../users/entities/user.entity';
 import type { AuditAction } from './audit-actions';
 import { AuditEvent } from './entities/audit-event.entity';
@@ -17,6 +17,11 @@ export interface AuditEntry {
 @Injectable()
 export class AuditService {
   constructor(@InjectRepository(AuditEvent) private readonly events: Repository<AuditEvent>) {}
+
+  /** How many events of this action one user caused since the given time. */
+  countSince(actorId: string, action: AuditAction, since: Date): Promise<number> {
+    return this.events.count({ where: { actorId, action, at: MoreThan(since) } });
+  }
 
   /** Appends one event; pass `manager` to write it inside the caller's transaction. */
   async record(entry: AuditEntry, manager?: EntityManager): Promise<void> {

@@ -17,6 +17,7 @@ import {
   ApiTags,
 } from '@nestjs/swagger';
 import { CurrentUser, Roles, SignedIn } from '../auth/decorators';
+import { RateLimit } from '../auth/rate-limit';
 import type { User } from '../users/entities/user.entity';
 import { CreateEvaluationDto } from './dto/create-evaluation.dto';
 import { EvaluationsService } from './evaluations.service';
@@ -28,6 +29,7 @@ import { EvaluationsService } from './evaluations.service';
 export class EvaluationsController {
   constructor(private readonly evaluations: EvaluationsService) {}
 
+  @RateLimit('backtest')
   @Post()
   @HttpCode(202)
   @ApiOperation({

@@ -8,6 +8,7 @@ import { Body, Controller, Get, Headers, HttpCode, Post, Query, Res } from '@nes
 import { ApiOperation, ApiProduces, ApiTags } from '@nestjs/swagger';
 import type { Response } from 'express';
 import { CurrentUser, Roles, SignedIn } from '../auth/decorators';
+import { RateLimit } from '../auth/rate-limit';
 import type { User } from '../users/entities/user.entity';
 import { BacktestQuery, ForecastsQuery, StartScoringDto } from './dto/forecasts.query';
 import { ForecastsService } from './forecasts.service';
@@ -97,6 +98,7 @@ export class ForecastsController {
     return this.runs.list();
   }
 
+  @RateLimit('rescoring')
   @Post('scoring')
   @Roles('registrar')
   @HttpCode(202)

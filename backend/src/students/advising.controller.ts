@@ -7,6 +7,7 @@ import {
   ApiTags,
 } from '@nestjs/swagger';
 import { CurrentUser, Roles, SignedIn } from '../auth/decorators';
+import { RateLimit } from '../auth/rate-limit';
 import type { User } from '../users/entities/user.entity';
 import { AdvisingService } from './advising.service';
 import { CreateNoteDto } from './dto/create-note.dto';
@@ -58,6 +59,7 @@ export class AdvisingController {
     return this.advising.replaceShortlist(ref, dto.courseCodes, user);
   }
 
+  @RateLimit('summaryMail')
   @Post(':ref/summary')
   @HttpCode(200)
   @ApiOperation({

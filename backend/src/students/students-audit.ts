@@ -7,6 +7,8 @@ import type { AuditAction } from '../audit/audit-actions';
 export const STUDENT_AUDIT = {
   lookup: 'student.lookup',
   lookupNotFound: 'student.lookup_not_found',
+  /** One user looked up many numbers that match no student: perhaps guessing. */
+  lookupMissesAlert: 'student.lookup_misses_alert',
   electivesViewed: 'student.electives_viewed',
   noteAdded: 'student.note_added',
   shortlistChanged: 'student.shortlist_changed',

@@ -9,6 +9,7 @@ import type {
 import { Body, Controller, Get, HttpCode, Param, Post, Query } from '@nestjs/common';
 import { ApiNotFoundResponse, ApiOperation, ApiTags } from '@nestjs/swagger';
 import { CurrentUser, Roles, SignedIn } from '../auth/decorators';
+import { RateLimit } from '../auth/rate-limit';
 import type { User } from '../users/entities/user.entity';
 import { ElectivesQuery } from './dto/electives.query';
 import { LookupStudentDto } from './dto/lookup-student.dto';
@@ -25,6 +26,7 @@ export class StudentsController {
     private readonly electivesService: ElectivesService,
   ) {}
 
+  @RateLimit('studentLookup')
   @Post('lookup')
   @HttpCode(200)
   @ApiOperation({

@@ -6,7 +6,7 @@ import type {
   StudentStatus,
 } from '@kinpath/contracts';
 import { STUDENT_NOT_FOUND_MESSAGE } from '@kinpath/contracts';
-import { Injectable, NotFoundException } from '@nestjs/common';
+import { Injectable, Logger, NotFoundException } from '@nestjs/common';
 import { InjectDataSource } from '@nestjs/typeorm';
 import type { DataSource } from 'typeorm';
 import { AuditService } from '../audit/audit.service';
@@ -37,6 +37,9 @@ export interface StudentRecords {
 }
 
 const RECENT_LIMIT = 12;
+/** This many look-ups of unknown numbers by one user within the window raise an alert. */
+export const LOOKUP_MISSES_ALERT = 20;
+export const LOOKUP_MISSES_WINDOW_MINUTES = 10;
 /** Students kept per model for the electives route; the oldest go first beyond this. */
 const CACHED_STUDENTS = 5000;
 
@@ -56,6 +59,8 @@ export class StudentsService {
    */
   private readonly byModel = new WeakMap<ModelSnapshot, Map<string, StudentRecords>>();
 
+  private readonly logger = new Logger(StudentsService.name);
+
   constructor(
     @InjectDataSource() private readonly dataSource: DataSource,
     private readonly pseudonyms: PseudonymService,
@@ -73,6 +78,7 @@ export class StudentsService {
     if (!rows[0]) {
       // Who tried, not what: repeated misses show up in the trail without any number.
       await this.audit.record({ actor, action: auditAction(STUDENT_AUDIT.lookupNotFound) });
+      await this.alertOnManyMisses(actor);
       throw new NotFoundException(STUDENT_NOT_FOUND_MESSAGE);
     }
     // One ref per student, kept for good, so notes and shortlists follow the student.
@@ -94,6 +100,25 @@ export class StudentsService {
       program: rows[0].program,
       status: rows[0].status,
       entryTerm: rows[0].entry_term,
+    });
+  }
+
+  /** Every LOOKUP_MISSES_ALERT misses within the window, one alert in the audit trail. */
+  private async alertOnManyMisses(actor: Actor): Promise<void> {
+    const since = new Date(Date.now() - LOOKUP_MISSES_WINDOW_MINUTES * 60_000);
+    const misses = await this.audit.countSince(
+      actor.id,
+      auditAction(STUDENT_AUDIT.lookupNotFound),
+      since,
+    );
+    if (misses === 0 || misses % LOOKUP_MISSES_ALERT !== 0) return;
+    this.logger.warn(
+      `One user looked up ${misses} unknown student numbers in ${LOOKUP_MISSES_WINDOW_MINUTES} minutes.`,
+    );
+    await this.audit.record({
+      actor,
+      action: auditAction(STUDENT_AUDIT.lookupMissesAlert),
+      detail: { unknownLookups: misses, windowMinutes: LOOKUP_MISSES_WINDOW_MINUTES },
     });
   }
 

@@ -16,6 +16,9 @@ import { hashPassword } from './passwords';
 export const RESET_REQUESTED =
   'If an active account uses this address, a link to choose a new password is on its way. It works once, for one hour.';
 
+/** Reset links e-mailed to one account in an hour; further requests send nothing. */
+export const RESET_MAILS_PER_HOUR = 3;
+
 /** Password reset by e-mail: a single-use link valid one hour. */
 @Injectable()
 export class PasswordResetService {
@@ -75,18 +78,31 @@ export class PasswordResetService {
       .where('user.email = :email', { email })
       .getOne();
     const eligible = Boolean(user && user.active && user.passwordHash);
+    // The cap is checked and the link issued under a lock on the account, so a burst of
+    // requests cannot all pass the count at once.
+    const issued =
+      user && eligible
+        ? await this.users.manager.transaction(async (manager) => {
+            await manager.query(`SELECT 1 FROM users WHERE id = $1 FOR UPDATE`, [user.id]);
+            const rows: Array<{ n: number }> = await manager.query(
+              `SELECT count(*)::int AS n FROM account_tokens
+               WHERE user_id = $1 AND purpose = 'password_reset'
+                 AND created_at > now() - interval '1 hour'`,
+              [user.id],
+            );
+            if ((rows[0]?.n ?? 0) >= RESET_MAILS_PER_HOUR) return null;
+            return issueToken(manager, user.id, 'password_reset');
+          })
+        : null;
     await this.audit.record({
       actor: user ? { id: user.id, email: user.email } : { email: email.slice(0, 254) },
       action: AUDIT_ACTIONS.passwordResetRequested,
       target: user?.id ?? null,
-      detail: { sent: eligible, address },
+      detail: { sent: issued !== null, address, ...(eligible && !issued ? { capped: true } : {}) },
     });
-    if (!user || !eligible) return;
-    const { token } = await this.users.manager.transaction((manager) =>
-      issueToken(manager, user.id, 'password_reset'),
-    );
+    if (!user || !issued) return;
     await this.mail.send(
-      passwordResetMail(user.email, `${this.config.publicUrl}/reset-password/${token}`),
+      passwordResetMail(user.email, `${this.config.publicUrl}/reset-password/${issued.token}`),
     );
   }
 }
