@@ -85,6 +85,9 @@ describe('accounts: invite, accept, sign in; the audit trail', { timeout: 150_00
     // The admin sees the account active now and can deactivate it.
     await admin.reload();
     await admin.getByRole('button', { name: `Deactivate Invited Advisor (${email})` }).click();
+    const confirm = admin.getByRole('dialog', { name: 'Deactivate Invited Advisor?' });
+    await expectAccessible(admin);
+    await confirm.getByRole('button', { name: 'Deactivate' }).click();
     await admin.getByText('is deactivated and signed out everywhere').waitFor();
   });
 

@@ -3,6 +3,7 @@ import { Body, Controller, Get, HttpCode, Ip, Post } from '@nestjs/common';
 import {
   ApiAcceptedResponse,
   ApiBadRequestResponse,
+  ApiForbiddenResponse,
   ApiNoContentResponse,
   ApiOkResponse,
   ApiOperation,
@@ -44,6 +45,10 @@ export class AuthController {
   })
   @ApiOkResponse({ description: '{ accessToken, user, expiresAt, sessionExpiresAt }' })
   @ApiUnauthorizedResponse({ description: 'Wrong e-mail or password (one message for both).' })
+  @ApiForbiddenResponse({
+    description:
+      'The correct password of a deactivated account: the message says so and whom to ask.',
+  })
   login(@Body() dto: LoginDto, @Ip() address: string): Promise<LoginResponse> {
     return this.auth.signIn(dto.email, dto.password, address);
   }

@@ -1,5 +1,5 @@
 import type { LoginResponse } from '@kinpath/contracts';
-import { Injectable, Logger, UnauthorizedException } from '@nestjs/common';
+import { ForbiddenException, Injectable, Logger, UnauthorizedException } from '@nestjs/common';
 import { JwtService } from '@nestjs/jwt';
 import { AUDIT_ACTIONS } from '../audit/audit-actions';
 import { AuditService } from '../audit/audit.service';
@@ -14,6 +14,14 @@ import type { AccessTokenPayload } from './strategies/jwt.strategy';
 
 /** One message for every refusal, so a reply never tells whether an address has an account. */
 export const SIGN_IN_REFUSED = 'The e-mail address or password is not correct.';
+
+/** Said only after the correct password, so it tells nothing to someone guessing. */
+export function accountNotActive(adminEmails: string[]): string {
+  const whom = adminEmails.length
+    ? `a Kinpath administrator (${adminEmails.join(' or ')})`
+    : 'a Kinpath administrator at your registrar’s office';
+  return `Your Kinpath account is not active. Ask ${whom} to reactivate it.`;
+}
 
 @Injectable()
 export class AuthService {
@@ -49,8 +57,12 @@ export class AuthService {
         action: AUDIT_ACTIONS.signInFailed,
         detail: { reason, address },
       });
-      await this.throttle.recordFailure(emailKey, address);
       this.logger.log(`Sign-in refused (${reason}).`);
+      // The right password for a deactivated account: not a guess, so not counted.
+      if (reason === 'inactive') {
+        throw new ForbiddenException(accountNotActive(await this.users.activeAdminEmails()));
+      }
+      await this.throttle.recordFailure(emailKey, address);
       throw new UnauthorizedException(SIGN_IN_REFUSED);
     }
 

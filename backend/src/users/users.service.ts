@@ -55,6 +55,17 @@ export class UsersService {
       .getOne();
   }
 
+  /** Whom a deactivated person can ask: the active administrators, oldest first. */
+  async activeAdminEmails(limit = 2): Promise<string[]> {
+    const admins = await this.users.find({
+      select: { email: true },
+      where: { role: 'admin', active: true },
+      order: { createdAt: 'ASC' },
+      take: limit,
+    });
+    return admins.map((admin) => admin.email);
+  }
+
   count(manager?: EntityManager): Promise<number> {
     return (manager ? manager.getRepository(User) : this.users).count();
   }

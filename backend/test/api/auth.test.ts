@@ -148,9 +148,18 @@ describe('deactivated accounts', () => {
           .set(...bearer(token))
       ).status,
     ).toBe(401);
+    // The right password hears that the account is not active and whom to ask…
     const again = await api().post('/api/auth/login').send({ email, password });
-    expect(again.status).toBe(401);
-    expect(again.body.message).toBe(SIGN_IN_REFUSED);
+    expect(again.status).toBe(403);
+    expect(again.body.message).toMatch(
+      /^Your Kinpath account is not active\. Ask a Kinpath administrator \(admin@halden\.example( or [^)]+)?\) to reactivate it\.$/,
+    );
+    // …a wrong one hears only what anyone hears, so nothing tells the account exists.
+    const wrong = await api()
+      .post('/api/auth/login')
+      .send({ email, password: 'not-the-password-at-all' });
+    expect(wrong.status).toBe(401);
+    expect(wrong.body.message).toBe(SIGN_IN_REFUSED);
 
     // Reactivation allows a new sign-in but does not revive the old token.
     await api()

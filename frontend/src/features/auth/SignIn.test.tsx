@@ -86,6 +86,21 @@ describe('sign-in page', () => {
     );
   });
 
+  it('tells a deactivated person, in the server’s words, that the account is not active', async () => {
+    const message =
+      'Your Kinpath account is not active. Ask a Kinpath administrator (admin@halden.example) to reactivate it.';
+    api = installFakeApi({
+      'POST /auth/login': () => ({
+        status: 403,
+        data: { statusCode: 403, message, error: 'Forbidden' },
+      }),
+    });
+    renderApp('/sign-in');
+    await fillAndSubmit('advisor@halden.example', 'kinpath-demo-2026');
+    expect(await screen.findByRole('alert')).toHaveTextContent(message);
+    expect(getSession()).toBeNull();
+  });
+
   it('signs in, keeps the session for the tab and opens the role’s landing page', async () => {
     api = installFakeApi({
       'POST /auth/login': () => ({

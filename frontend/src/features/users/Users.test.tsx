@@ -235,4 +235,37 @@ describe('users page', { timeout: 20_000 }, () => {
       'Ruth Calloway': 'Active',
     });
   });
+
+  it('asks before deactivating, and sends nothing when cancelled', async () => {
+    api = installFakeApi({
+      'GET /users': () => ({ status: 200, data: [...ACCOUNTS] }),
+      'PATCH /users/2': ({ body }) => ({
+        status: 200,
+        data: { ...ACCOUNTS[1], ...(body as object) },
+      }),
+    });
+    signInAs('admin');
+    renderApp('/admin/users');
+    await screen.findByRole('table', { name: 'Accounts' });
+    const user = userEvent.setup();
+    const deactivate = screen.getByRole('button', {
+      name: 'Deactivate Ruth Calloway (head.cmp@halden.example)',
+    });
+
+    await user.click(deactivate);
+    const dialog = await screen.findByRole('dialog', { name: 'Deactivate Ruth Calloway?' });
+    expect(dialog).toHaveTextContent('signed out everywhere at once');
+    await user.click(within(dialog).getByRole('button', { name: 'Cancel' }));
+    await waitFor(() => expect(screen.queryByRole('dialog')).toBeNull());
+    expect(api.requests.filter((r) => r.method === 'PATCH')).toHaveLength(0);
+
+    await user.click(deactivate);
+    const again = await screen.findByRole('dialog', { name: 'Deactivate Ruth Calloway?' });
+    await user.click(within(again).getByRole('button', { name: 'Deactivate' }));
+    await waitFor(() =>
+      expect(api?.requests.filter((r) => r.method === 'PATCH')).toEqual([
+        expect.objectContaining({ url: '/users/2', body: { active: false } }),
+      ]),
+    );
+  });
 });

@@ -21,7 +21,11 @@ const EMAIL_PATTERN = /^[^\s@]+@[^\s@]+\.[^\s@]+$/;
 export function signInFailureMessage(error: unknown): string {
   const status = httpStatus(error);
   if (status === 401) return WRONG_CREDENTIALS_MESSAGE;
-  if (status === 429) return 'Too many sign-in attempts. Wait a minute, then try again.';
+  if (status === 429) {
+    return apiMessage(error) ?? 'Too many sign-in attempts. Wait a minute, then try again.';
+  }
+  // A deactivated account, after its correct password: the server says whom to ask.
+  if (status === 403) return apiMessage(error) ?? 'This account is not active.';
   if (status === 400) return apiMessage(error) ?? 'Check the e-mail address and the password.';
   if (status === undefined) {
     return 'The Kinpath server could not be reached. Check the connection and try again.';

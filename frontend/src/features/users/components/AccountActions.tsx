@@ -5,6 +5,7 @@ import Button from '@mui/material/Button';
 import Dialog from '@mui/material/Dialog';
 import DialogActions from '@mui/material/DialogActions';
 import DialogContent from '@mui/material/DialogContent';
+import DialogContentText from '@mui/material/DialogContentText';
 import DialogTitle from '@mui/material/DialogTitle';
 import Stack from '@mui/material/Stack';
 import TextField from '@mui/material/TextField';
@@ -104,6 +105,40 @@ function RoleDialog({ user, onClose }: { user: UserAccount; onClose: () => void 
   );
 }
 
+/** Deactivation signs the person out everywhere at once, so it is confirmed first. */
+function DeactivateDialog({
+  user,
+  onCancel,
+  onConfirm,
+}: {
+  user: UserAccount;
+  onCancel: () => void;
+  onConfirm: () => void;
+}) {
+  const titleId = useId();
+  const textId = useId();
+  return (
+    <Dialog open onClose={onCancel} aria-labelledby={titleId} aria-describedby={textId}>
+      <DialogTitle id={titleId}>Deactivate {user.displayName}?</DialogTitle>
+      <DialogContent>
+        <DialogContentText id={textId}>
+          {user.displayName} ({user.email}) is signed out everywhere at once and cannot sign in
+          until an administrator reactivates the account. Notes and the audit trail stay as they
+          are.
+        </DialogContentText>
+      </DialogContent>
+      <DialogActions>
+        <Button onClick={onCancel} autoFocus>
+          Cancel
+        </Button>
+        <Button variant="contained" color="warning" onClick={onConfirm}>
+          Deactivate
+        </Button>
+      </DialogActions>
+    </Dialog>
+  );
+}
+
 /** What an admin can do with one account, from its row in the table. */
 export function AccountActions({
   user,
@@ -113,6 +148,7 @@ export function AccountActions({
   onDone: (message: string, error?: boolean) => void;
 }) {
   const [editing, setEditing] = useState(false);
+  const [confirming, setConfirming] = useState(false);
   const update = useUpdateUser();
   const resend = useResendInvitation();
   const revoke = useRevokeInvitation();
@@ -168,18 +204,31 @@ export function AccountActions({
             color={user.active ? 'warning' : 'primary'}
             aria-label={`${user.active ? 'Deactivate' : 'Reactivate'} ${who}`}
             onClick={() =>
-              run(
-                () => update.mutateAsync({ id: user.id, active: !user.active }),
-                user.active
-                  ? `${user.displayName} is deactivated and signed out everywhere.`
-                  : `${user.displayName} can sign in again.`,
-              )
+              user.active
+                ? setConfirming(true)
+                : run(
+                    () => update.mutateAsync({ id: user.id, active: true }),
+                    `${user.displayName} can sign in again.`,
+                  )
             }
           >
             {user.active ? 'Deactivate' : 'Reactivate'}
           </Button>
         </>
       )}
+      {confirming ? (
+        <DeactivateDialog
+          user={user}
+          onCancel={() => setConfirming(false)}
+          onConfirm={() => {
+            setConfirming(false);
+            void run(
+              () => update.mutateAsync({ id: user.id, active: false }),
+              `${user.displayName} is deactivated and signed out everywhere.`,
+            );
+          }}
+        />
+      ) : null}
       {editing ? (
         <RoleDialog
           user={user}
