@@ -2,7 +2,12 @@ import { mkdtempSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { ConfigError, loadConfig } from './config';
+import {
+  ConfigError,
+  DEFAULT_STUDENT_NUMBER_PATTERN,
+  loadConfig,
+  studentNumberLikeWords,
+} from './config';
 import { readOrCreateSecret } from './secrets';
 
 const dataDir = mkdtempSync(join(tmpdir(), 'kinpath-config-'));
@@ -48,6 +53,26 @@ describe('configuration', () => {
     expect(loadConfig(base).rateLimitScale).toBe(1);
     expect(loadConfig({ ...base, KINPATH_RATE_LIMIT_SCALE: '100' }).rateLimitScale).toBe(100);
     expect(() => loadConfig({ ...base, KINPATH_RATE_LIMIT_SCALE: '0' })).toThrow(/above 0/);
+  });
+
+  it('finds words of the student-number form, by default the demo’s HR1000003', () => {
+    const pattern = loadConfig(base).studentNumberPattern;
+    expect(pattern).toBe(DEFAULT_STUDENT_NUMBER_PATTERN);
+    expect(
+      studentNumberLikeWords('Met HR1000003 (and hr1000051); not HR12 or xHR1000003y.', pattern),
+    ).toEqual(['HR1000003', 'hr1000051']);
+    // Years and course numbers have the form too; callers compare with the students on record.
+    expect(studentNumberLikeWords('CMP 2310 in 2026', pattern)).toEqual(['2310', '2026']);
+    const custom = loadConfig({ ...base, KINPATH_STUDENT_NUMBER_PATTERN: 's\\d{7}' });
+    expect(studentNumberLikeWords('s1234567, S1234567', custom.studentNumberPattern)).toEqual([
+      's1234567',
+    ]);
+    expect(() => loadConfig({ ...base, KINPATH_STUDENT_NUMBER_PATTERN: '([' })).toThrow(
+      /KINPATH_STUDENT_NUMBER_PATTERN must be a regular expression/,
+    );
+    expect(() => loadConfig({ ...base, KINPATH_STUDENT_NUMBER_PATTERN: '\\d*' })).toThrow(
+      /must not match empty text/,
+    );
   });
 
   it('reads KINPATH_DEMO=off', () => {

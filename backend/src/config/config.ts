@@ -42,6 +42,11 @@ export interface AppConfig {
    * loopback, linklocal, uniquelocal); none by default, so a client cannot pick its address.
    */
   trustedProxies: string[];
+  /**
+   * What a student number looks like (a regular expression, matched as a whole word): free
+   * text (notes, summary messages) and file names are checked against it.
+   */
+  studentNumberPattern: string;
   /** Multiplies every route's request limit (RATE_LIMITS); 1 in real use. */
   rateLimitScale: number;
 }
@@ -166,8 +171,37 @@ export function loadConfig(env: Env = process.env): AppConfig {
     publicUrl,
     corsOrigins,
     trustedProxies: trustedProxies(env),
+    studentNumberPattern: studentNumberPattern(env),
     rateLimitScale: positiveNumber(env, 'KINPATH_RATE_LIMIT_SCALE', 1),
   };
+}
+
+/** A few letters, then 4 to 12 digits: the demo's HR1000003, and most registrars' forms. */
+export const DEFAULT_STUDENT_NUMBER_PATTERN = '[A-Za-z]{0,6}\\d{4,12}';
+
+function studentNumberPattern(env: Env): string {
+  const source = text(
+    env,
+    'KINPATH_STUDENT_NUMBER_PATTERN',
+    DEFAULT_STUDENT_NUMBER_PATTERN,
+  ) as string;
+  try {
+    new RegExp(source, 'u');
+  } catch {
+    throw new ConfigError(
+      `KINPATH_STUDENT_NUMBER_PATTERN must be a regular expression, such as ${DEFAULT_STUDENT_NUMBER_PATTERN}; '${source}' is not one.`,
+    );
+  }
+  if (new RegExp(`^(?:${source})$`, 'u').test('')) {
+    throw new ConfigError('KINPATH_STUDENT_NUMBER_PATTERN must not match empty text.');
+  }
+  return source;
+}
+
+/** Every whole word of `text` that has the form of a student number. */
+export function studentNumberLikeWords(text: string, pattern: string): string[] {
+  const finder = new RegExp(`(?<![\\p{L}\\p{N}])(?:${pattern})(?![\\p{L}\\p{N}])`, 'gu');
+  return [...new Set(text.match(finder) ?? [])];
 }
 
 const PROXY_NAMES = new Set(['loopback', 'linklocal', 'uniquelocal']);

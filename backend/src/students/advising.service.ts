@@ -6,10 +6,14 @@ import type { DataSource, EntityManager } from 'typeorm';
 import { AuditService } from '../audit/audit.service';
 import { ModelService } from '../model/model.service';
 import type { User } from '../users/entities/user.entity';
+import { StudentNumberCheck } from './student-number-check';
 import { StudentsService } from './students.service';
 import { auditAction, STUDENT_AUDIT } from './students-audit';
 
 type Actor = Pick<User, 'id' | 'email'>;
+
+export const NOTE_HOLDS_NUMBER =
+  'The note contains a student number; remove it, as notes must not hold one (the note is filed under this student already).';
 
 /** Advising notes and the shortlist: kept per student ref, shared by every advisor. */
 @Injectable()
@@ -19,6 +23,7 @@ export class AdvisingService {
     private readonly students: StudentsService,
     private readonly model: ModelService,
     private readonly audit: AuditService,
+    private readonly numbers: StudentNumberCheck,
   ) {}
 
   async notes(ref: string): Promise<AdvisingNote[]> {
@@ -46,6 +51,7 @@ export class AdvisingService {
 
   async addNote(ref: string, text: string, actor: Actor): Promise<AdvisingNote> {
     await this.students.find(ref);
+    if (await this.numbers.mentionsStudent(text)) throw new BadRequestException(NOTE_HOLDS_NUMBER);
     const id = await this.dataSource.transaction(async (manager) => {
       const rows: { id: string }[] = await manager.query(
         `INSERT INTO advising_notes (student_ref, author_id, text) VALUES ($1, $2, $3) RETURNING id`,

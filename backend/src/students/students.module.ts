@@ -6,6 +6,7 @@ import { AdvisingController } from './advising.controller';
 import { AdvisingService } from './advising.service';
 import { ElectivesService } from './electives.service';
 import { StudentsController } from './students.controller';
+import { StudentNumberCheck } from './student-number-check';
 import { StudentsService } from './students.service';
 import { SummaryService } from './summary.service';
 
@@ -13,6 +14,12 @@ import { SummaryService } from './summary.service';
 @Module({
   imports: [ModelModule, PseudonymModule, MailModule],
   controllers: [StudentsController, AdvisingController],
-  providers: [StudentsService, ElectivesService, AdvisingService, SummaryService],
+  providers: [
+    StudentsService,
+    ElectivesService,
+    AdvisingService,
+    SummaryService,
+    StudentNumberCheck,
+  ],
 })
 export class StudentsModule {}

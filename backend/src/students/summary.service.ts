@@ -6,21 +6,16 @@ import {
   Logger,
   ServiceUnavailableException,
 } from '@nestjs/common';
-import { InjectDataSource } from '@nestjs/typeorm';
-import type { DataSource } from 'typeorm';
 import { AuditService } from '../audit/audit.service';
 import { MailService } from '../mail/mail.service';
 import { ModelService } from '../model/model.service';
-import { PseudonymService } from '../pseudonym/pseudonym.service';
 import type { User } from '../users/entities/user.entity';
 import type { SendSummaryDto } from './dto/send-summary.dto';
 import { ElectivesService } from './electives.service';
 import { StudentsService } from './students.service';
 import { auditAction, STUDENT_AUDIT } from './students-audit';
+import { StudentNumberCheck } from './student-number-check';
 import { composeSummary } from './summary-text';
-
-/** Words that could be a student number: a few letters, then digits. */
-const NUMBER_LIKE = /\b[A-Za-z]{0,6}\d{4,12}\b/g;
 
 /** The advising summary e-mail to a student. */
 @Injectable()
@@ -28,13 +23,12 @@ export class SummaryService {
   private readonly logger = new Logger(SummaryService.name);
 
   constructor(
-    @InjectDataSource() private readonly dataSource: DataSource,
     private readonly students: StudentsService,
     private readonly electives: ElectivesService,
     private readonly model: ModelService,
-    private readonly pseudonyms: PseudonymService,
     private readonly mail: MailService,
     private readonly audit: AuditService,
+    private readonly numbers: StudentNumberCheck,
   ) {}
 
   async send(
@@ -53,7 +47,7 @@ export class SummaryService {
       if (!codes.includes(code)) codes.push(code);
     }
     const message = dto.message?.trim() || null;
-    if (message && (await this.mentionsStudentNumber(message))) {
+    if (message && (await this.numbers.mentionsStudent(message))) {
       throw new BadRequestException(
         'The message contains a student number; remove it, as the summary must not carry one.',
       );
@@ -93,17 +87,5 @@ export class SummaryService {
       courseCodes: codes,
       sentAt: sentAt.toISOString(),
     };
-  }
-
-  /** Whether a word of the message is the number of a student on record (compared by pseudonym). */
-  private async mentionsStudentNumber(message: string): Promise<boolean> {
-    const words = [...new Set(message.match(NUMBER_LIKE) ?? [])].slice(0, 100);
-    if (words.length === 0) return false;
-    const pseudonyms = words.map((w) => this.pseudonyms.pseudonymFor(w));
-    const rows: unknown[] = await this.dataSource.query(
-      `SELECT 1 FROM students WHERE pseudonym = ANY($1::text[]) LIMIT 1`,
-      [pseudonyms],
-    );
-    return rows.length > 0;
   }
 }

@@ -510,6 +510,28 @@ describe('notes and the shortlist', () => {
     });
   });
 
+  it('refuses a note holding a student number, and stores nothing of it', async () => {
+    const other = activeDemoStudents(2)[1];
+    const before = (await get(`/api/students/${ref}/notes`, advisor)).body.length as number;
+    for (const text of [`Spoke with ${studentId} today.`, `Compare with ${other.toLowerCase()}.`]) {
+      const res = await api()
+        .post(`/api/students/${ref}/notes`)
+        .set(...bearer(advisor))
+        .send({ text });
+      expect(res.status, res.text).toBe(400);
+      expect(res.body.message).toMatch(/contains a student number/);
+      expect(res.text).not.toContain(studentId);
+      expect(res.text.toLowerCase()).not.toContain(other.toLowerCase());
+    }
+    expect((await get(`/api/students/${ref}/notes`, advisor)).body).toHaveLength(before);
+    // Years and course numbers have the same form but are nobody's number.
+    const fine = await api()
+      .post(`/api/students/${ref}/notes`)
+      .set(...bearer(advisor))
+      .send({ text: 'Plans CMP 2310 for 2026 and CMP3110 after that.' });
+    expect(fine.status, fine.text).toBe(201);
+  });
+
   it('refuses an empty note, one over 4000 characters, and registrar staff', async () => {
     for (const text of ['   ', 'x'.repeat(4001)]) {
       const res = await api()
