@@ -20,7 +20,7 @@ import { join } from 'node:path';
 import { spawnSync } from 'node:child_process';
 import { pathToFileURL } from 'node:url';
 import { fallbackDir, profileDir } from './lib/paths.mjs';
-import { aptInstall, fail, isRoot } from './lib/run.mjs';
+import { aptInstall, fail, isRoot, portInUse } from './lib/run.mjs';
 
 const PROFILE_DEFAULTS = {
   start: { port: 54329, database: 'kinpath' },
@@ -187,6 +187,12 @@ export function startCluster(profile = 'start') {
   }
   if (!existsSync(join(ctx.dataDir, 'PG_VERSION'))) initCluster(ctx);
   if (!isRunning(ctx)) {
+    if (portInUse(ctx.port)) {
+      const variable = profile === 'test' ? 'KINPATH_TEST_DB_PORT' : 'KINPATH_DB_PORT';
+      fail(
+        `port ${ctx.port} on 127.0.0.1, where the ${profile} PostgreSQL cluster listens, is in use by another program; set ${variable} to a free port.`,
+      );
+    }
     const r = asOwner(join(ctx.bin, 'pg_ctl'), [
       '-D',
       ctx.dataDir,

@@ -6,7 +6,7 @@ import { spawn } from 'node:child_process';
 import { join } from 'node:path';
 import { ensureDatabase, startCluster } from './db.mjs';
 import { profileDir, repoRoot } from './lib/paths.mjs';
-import { fail } from './lib/run.mjs';
+import { fail, portInUse } from './lib/run.mjs';
 import { buildAll, ensureDemoFiles, ensureDependencies, waitForHealth } from './lib/setup.mjs';
 
 if (Number(process.versions.node.split('.')[0]) < 20) fail('Kinpath needs Node.js 20.19 or newer.');
@@ -18,6 +18,11 @@ const { MAIL_DEFAULTS, mailDir, startMailCatcher } = await import('./mail-catche
 const port = process.env.PORT ?? '3000';
 const demo = (process.env.KINPATH_DEMO ?? 'on') !== 'off';
 const dataDir = process.env.KINPATH_DATA_DIR ?? profileDir('start');
+
+// Before the long steps: a taken server port is one sentence naming the setting.
+if (portInUse(Number(port))) {
+  fail(`port ${port} on 127.0.0.1 is in use by another program; set PORT to a free port.`);
+}
 
 const db = startCluster('start');
 ensureDatabase(db);

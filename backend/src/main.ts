@@ -3,6 +3,7 @@ import { ConsoleLogger, Logger, ValidationPipe } from '@nestjs/common';
 import { NestFactory } from '@nestjs/core';
 import type { NestExpressApplication } from '@nestjs/platform-express';
 import helmet from 'helmet';
+import { createServer } from 'node:net';
 import { AppModule } from './app.module';
 import { rejectBadText, verifyJsonDepth } from './common/input-checks';
 import { ConfigError, loadConfig, logLevelsFrom, type AppConfig } from './config/config';
@@ -20,6 +21,18 @@ async function bootstrap(): Promise<void> {
       process.exit(1);
     }
     throw error;
+  }
+
+  // Checked before anything else starts, so a taken port is one sentence, not a stack trace.
+  const taken = await new Promise<unknown>((done) => {
+    const probe = createServer();
+    probe.once('error', done);
+    probe.listen(config.port, config.host, () => probe.close(() => done(null)));
+  });
+  const problem = taken ? portProblem(taken, config) : null;
+  if (problem) {
+    process.stderr.write(`Kinpath cannot start: ${problem.message}\n`);
+    process.exit(1);
   }
 
   const app = await NestFactory.create<NestExpressApplication>(AppModule, {
@@ -80,8 +93,29 @@ async function bootstrap(): Promise<void> {
   setUpOpenApi(app);
   serveSpa(app, config.staticDir);
 
-  await app.listen(config.port, config.host);
+  try {
+    await app.listen(config.port, config.host);
+  } catch (error) {
+    await app.close().catch(() => undefined);
+    throw portProblem(error, config) ?? error;
+  }
   announce(config, app.get(SetupService));
+}
+
+/** A port that is taken or not allowed, as one sentence naming the setting to change. */
+function portProblem(error: unknown, config: AppConfig): ConfigError | null {
+  const code = (error as { code?: string })?.code;
+  if (code === 'EADDRINUSE') {
+    return new ConfigError(
+      `port ${config.port} on ${config.host} is in use by another program; set PORT to a free port.`,
+    );
+  }
+  if (code === 'EACCES') {
+    return new ConfigError(
+      `port ${config.port} on ${config.host} cannot be used by this user; set PORT to a port above 1023.`,
+    );
+  }
+  return null;
 }
 
 function announce(config: AppConfig, setup: SetupService): void {

@@ -47,3 +47,14 @@ export function aptInstall(packages, why) {
   });
   if (install.status !== 0) fail(`could not install ${packages.join(', ')}; install it by hand.`);
 }
+
+/**
+ * Whether another program listens on host:port. Probed in a child process so the
+ * synchronous set-up steps can ask it too.
+ */
+export function portInUse(port, host = '127.0.0.1') {
+  const probe = `const s = require('node:net').createServer();
+s.once('error', (e) => process.exit(e.code === 'EADDRINUSE' ? 3 : 0));
+s.listen(${Number(port)}, ${JSON.stringify(host)}, () => s.close(() => process.exit(0)));`;
+  return spawnSync(process.execPath, ['-e', probe], { stdio: 'ignore' }).status === 3;
+}
