@@ -70,7 +70,7 @@ export class RateLimitGuard extends ThrottlerGuard {
   protected override async handleRequest(request: ThrottlerRequest): Promise<boolean> {
     return super.handleRequest({
       ...request,
-      limit: Math.round(request.limit * this.config.rateLimitScale),
+      limit: Math.max(1, Math.round(request.limit * this.config.rateLimitScale)),
     });
   }
 }
