@@ -36,6 +36,26 @@ export interface AppConfig {
   publicUrl: string;
   /** Origins allowed to call the API from another site; none by default (same origin only). */
   corsOrigins: string[];
+  /** What the institution's student numbers look like: withheld wherever such text would be stored. */
+  studentNumberPattern: RegExp;
+}
+
+/** Letters (up to four) then 6 to 12 digits, or a bare run of them: HR1000037, 20231234. */
+export const DEFAULT_STUDENT_NUMBER_PATTERN = '[A-Za-z]{0,4}[0-9]{6,12}';
+
+/**
+ * KINPATH_STUDENT_NUMBER_PATTERN as a global, case-insensitive search that does not
+ * match inside a longer run of letters or digits.
+ */
+export function studentNumberPattern(env: Env = process.env): RegExp {
+  const source = text(env, 'KINPATH_STUDENT_NUMBER_PATTERN', DEFAULT_STUDENT_NUMBER_PATTERN)!;
+  try {
+    return new RegExp(`(?<![A-Za-z0-9])(?:${source})(?![A-Za-z0-9])`, 'gi');
+  } catch {
+    throw new ConfigError(
+      `KINPATH_STUDENT_NUMBER_PATTERN must be a regular expression, not '${source}'.`,
+    );
+  }
 }
 
 type Env = Record<string, string | undefined>;
@@ -157,6 +177,7 @@ export function loadConfig(env: Env = process.env): AppConfig {
     logFormat: logFormat(env),
     publicUrl,
     corsOrigins,
+    studentNumberPattern: studentNumberPattern(env),
   };
 }
 

@@ -41,9 +41,17 @@ export function headerKey(header: string): string {
     .replace(/^_+|_+$/g, '');
 }
 
+/**
+ * Put before an unquoted cell that holds a tab: a tab is allowed only inside quotes,
+ * and the parser alone knows which cells were quoted.
+ */
+export const UNQUOTED_TAB = '\u0000\u0009\u0000';
+
 /** A streaming parser with the options every import uses: BOM, quotes, CRLF, ragged rows. */
 export function csvParser(delimiter: Delimiter, options: { toLine?: number } = {}) {
   return parse({
+    cast: (value, context) =>
+      !context.quoting && value.includes('\t') ? UNQUOTED_TAB + value : value,
     delimiter,
     bom: true,
     info: true,

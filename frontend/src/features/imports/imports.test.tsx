@@ -31,7 +31,7 @@ function summary(overrides: Partial<ImportSummary> = {}): ImportSummary {
     kind: 'records',
     status: 'validated',
     fileName: 'term-data-2026-FA.csv',
-    fileSha256: 'ab'.repeat(32),
+    fileDigest: 'ab'.repeat(32),
     rowsTotal: 1207,
     rowsAccepted: 1204,
     rowsRejected: 3,
@@ -45,6 +45,10 @@ function summary(overrides: Partial<ImportSummary> = {}): ImportSummary {
     committedBy: null,
     rolledBackAt: null,
     rolledBackBy: null,
+    discardedAt: null,
+    discardedBy: null,
+    leftOut: { columns: [], fields: [] },
+    rejectedRowsAvailable: true,
     durationMs: 840,
     validationMs: 840,
     commitMs: null,
@@ -96,6 +100,8 @@ const DEFAULT_HEADERS_PREVIEW: ImportPreview = {
     students: ['student_id'],
     records: ['student_id', 'term', 'grade'],
   },
+  likelyKind: 'catalogue',
+  encoding: 'utf-8',
 };
 
 const OTHER_HEADERS_PREVIEW: ImportPreview = {
@@ -117,6 +123,8 @@ const OTHER_HEADERS_PREVIEW: ImportPreview = {
     students: [],
     records: ['grade'],
   },
+  likelyKind: 'students',
+  encoding: 'utf-8',
 };
 
 function importsApi(extra: Record<string, FakeHandler> = {}) {

@@ -55,6 +55,8 @@ export function statusSentence(summary: ImportSummary): string {
       return 'Failed; nothing of this import was written.';
     case 'rolled_back':
       return 'Rolled back; the rows it replaced have their earlier values again.';
+    case 'discarded':
+      return 'Discarded; nothing of this import was written, and its file was removed.';
   }
 }
 
