@@ -65,6 +65,8 @@ describe('registrar imports in the browser', () => {
     await form()
       .getByText(/column was found by its name/)
       .waitFor();
+    // Optional fields the file does not give are named, and leaving them out is confirmed.
+    await form().getByLabel('Import without them').check();
     if (commitAtOnce) await form().getByLabel('Commit at once when no row is rejected').check();
     await form().getByRole('button', { name: 'Upload and check' }).click();
   }
@@ -98,9 +100,9 @@ describe('registrar imports in the browser', () => {
 
     const [download] = await Promise.all([
       page.waitForEvent('download'),
-      detail.getByRole('button', { name: 'Download rejected rows (CSV)' }).click(),
+      detail.getByRole('button', { name: 'Download validation report (CSV)' }).click(),
     ]);
-    expect(download.suggestedFilename()).toBe(`term-data-${DEPARTMENT}-rejected-rows.csv`);
+    expect(download.suggestedFilename()).toBe(`term-data-${DEPARTMENT}-validation-report.csv`);
     const content = await readFile(await download.path(), 'utf8');
     const lines = content.trim().split(/\r?\n/);
     expect(lines[0]).toBe('line,column,value,reason');

@@ -48,7 +48,6 @@ export async function inspectFile(path: string): Promise<FileInspection> {
   let utf8Ok = true;
   let bytes = 0;
   let head: Buffer | null = null;
-  let nulAt = -1;
   let nulsEven = 0;
   let nulsOdd = 0;
   let c1Controls = 0;
@@ -67,7 +66,6 @@ export async function inspectFile(path: string): Promise<FileInspection> {
     for (let i = 0; i < buf.length; i++) {
       const b = buf[i];
       if (b === 0) {
-        if (nulAt < 0) nulAt = bytes + i;
         if ((bytes + i) % 2 === 0) nulsEven++;
         else nulsOdd++;
       } else if (b >= 0x80 && b <= 0x9f) c1Controls++;
@@ -93,6 +91,8 @@ export async function inspectFile(path: string): Promise<FileInspection> {
     }
   }
   const first = head ?? Buffer.alloc(0);
+  // A stray NUL in a text file is refused at validation with its line; many make it binary.
+  const nuls = nulsEven + nulsOdd;
   const starts = (sig: number[]) => sig.every((b, i) => first[i] === b);
   let encoding: FileEncoding = 'utf-8';
   let binary: string | null = null;
@@ -100,9 +100,9 @@ export async function inspectFile(path: string): Promise<FileInspection> {
   if (starts([0xff, 0xfe])) encoding = 'utf-16le';
   else if (starts([0xfe, 0xff])) encoding = 'utf-16be';
   else if (magic) binary = magic[1];
-  else if (nulAt >= 0 && nulsOdd > 4 * nulsEven) encoding = 'utf-16le';
-  else if (nulAt >= 0 && nulsEven > 4 * nulsOdd) encoding = 'utf-16be';
-  else if (nulAt >= 0) binary = 'a binary file, not text';
+  else if (nuls > bytes / 20 && nulsOdd > 4 * nulsEven) encoding = 'utf-16le';
+  else if (nuls > bytes / 20 && nulsEven > 4 * nulsOdd) encoding = 'utf-16be';
+  else if (nuls > bytes / 20) binary = 'a binary file, not text';
   else if (!utf8Ok) encoding = c1Controls > 0 ? 'windows-1252' : 'latin-1';
   return { sha256: hash.digest('hex'), bytes, empty: !visible, binary, encoding };
 }

@@ -55,6 +55,7 @@ export function toSummary(row: ImportRow): ImportSummary {
     status: row.status,
     fileName: row.file_name,
     fileDigest: row.file_digest,
+    mapping: row.mapping,
     rowsTotal: row.rows_total,
     rowsAccepted: row.rows_accepted,
     rowsRejected: row.rows_rejected,

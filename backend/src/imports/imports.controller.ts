@@ -108,6 +108,14 @@ export class ImportsController {
     return this.imports.rejections(id);
   }
 
+  @Get(':id/preview')
+  @ApiOperation({
+    summary: 'Headers and first rows of a validated import’s kept file, to map it again.',
+  })
+  keptPreview(@Param('id', ParseUUIDPipe) id: string): Promise<ImportPreview> {
+    return this.imports.keptPreview(id);
+  }
+
   @Get(':id/rejected-rows')
   @ApiProduces('text/csv')
   @ApiOperation({

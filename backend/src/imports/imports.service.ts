@@ -202,8 +202,7 @@ export class ImportsService implements OnApplicationBootstrap {
       throw new UnprocessableEntityException({
         statusCode: 422,
         message: `The file is not UTF-8; it looks like ${ENCODING_NAMES[found.encoding]}. Confirm the encoding to read it in, or save the file as UTF-8.`,
-        detectedEncoding: found.encoding,
-        encodingName: ENCODING_NAMES[found.encoding],
+        details: { detectedEncoding: found.encoding, encodingName: ENCODING_NAMES[found.encoding] },
       });
     }
     return { ...found, readAs: confirmed as ImportEncoding };
@@ -286,9 +285,10 @@ export class ImportsService implements OnApplicationBootstrap {
   }
 
   private duplicate(earlier: EarlierImport) {
-    return new ConflictException(
-      `This file was committed already: ${describeImport(earlier)}. Roll that import back first to import the same file again.`,
-    );
+    return new ConflictException({
+      message: `This file was committed already: ${describeImport(earlier)}. Roll that import back first to import the same file again.`,
+      details: { earlierImportId: earlier.id },
+    });
   }
 
   /** The committed import of the same file, if any: only a committed file blocks it again. */
@@ -343,44 +343,60 @@ export class ImportsService implements OnApplicationBootstrap {
         await this.placeUpload({ ...file, path: file.path }, decoded, found.readAs);
         path = decoded;
       }
-      const delimiter = detectDelimiter(await readHeaderLine(path));
-      const parser = csvParser(delimiter, { toLine: 21 });
-      const source = createReadStream(path, { end: 1 << 20 });
-      source.pipe(parser);
-      const records: string[][] = [];
-      try {
-        for await (const item of parser as AsyncIterable<{ record: string[] }>) {
-          records.push(item.record.map((c) => c.replace(UNQUOTED_TAB, '')));
-          if (records.length >= 21) break;
-        }
-      } catch {
-        // A first megabyte cut inside a quoted field: show what was read.
-      } finally {
-        source.destroy();
-      }
-      const headers = (records.shift() ?? []).map((h) => h.trim());
-      const suggestedMappings = {} as ImportPreview['suggestedMappings'];
-      const missingFields = {} as ImportPreview['missingFields'];
-      for (const kind of IMPORT_KINDS) {
-        suggestedMappings[kind] = suggestMapping(kind, headers);
-        const resolved = resolveColumns(kind, headers, suggestedMappings[kind]);
-        missingFields[kind] = IMPORT_FIELDS[kind]
-          .filter((f) => f.required && !resolved.index.has(f.name))
-          .map((f) => f.name);
-      }
-      return {
-        delimiter,
-        headers,
-        rows: records,
-        suggestedMappings,
-        missingFields,
-        likelyKind: likelyKind(headers),
-        encoding: found.readAs,
-      };
+      return { ...(await this.previewOf(path)), encoding: found.readAs };
     } finally {
       await removeQuietly(file.path);
       await removeQuietly(decoded);
     }
+  }
+
+  /** Headers, first rows and suggestions of a UTF-8 file on disk. */
+  private async previewOf(path: string): Promise<Omit<ImportPreview, 'encoding'>> {
+    const delimiter = detectDelimiter(await readHeaderLine(path));
+    const parser = csvParser(delimiter, { toLine: 21 });
+    const source = createReadStream(path, { end: 1 << 20 });
+    source.pipe(parser);
+    const records: string[][] = [];
+    try {
+      for await (const item of parser as AsyncIterable<{ record: string[] }>) {
+        records.push(item.record.map((c) => c.replace(UNQUOTED_TAB, '')));
+        if (records.length >= 21) break;
+      }
+    } catch {
+      // A first megabyte cut inside a quoted field: show what was read.
+    } finally {
+      source.destroy();
+    }
+    const headers = (records.shift() ?? []).map((h) => h.trim());
+    const suggestedMappings = {} as ImportPreview['suggestedMappings'];
+    const missingFields = {} as ImportPreview['missingFields'];
+    for (const kind of IMPORT_KINDS) {
+      suggestedMappings[kind] = suggestMapping(kind, headers);
+      const resolved = resolveColumns(kind, headers, suggestedMappings[kind]);
+      missingFields[kind] = IMPORT_FIELDS[kind]
+        .filter((f) => f.required && !resolved.index.has(f.name))
+        .map((f) => f.name);
+    }
+    return {
+      delimiter,
+      headers,
+      rows: records,
+      suggestedMappings,
+      missingFields,
+      likelyKind: likelyKind(headers),
+    };
+  }
+
+  /** The preview of a validated import's kept upload, to choose another mapping. */
+  async keptPreview(id: string): Promise<ImportPreview> {
+    const row = await this.row(id);
+    const path = uploadPath(this.config.dataDir, id);
+    if (row.status !== 'validated' || !existsSync(path)) {
+      throw new ConflictException(
+        'The file of this import is no longer kept: it is kept only while the import is validated and not yet committed or discarded. Upload the file again.',
+      );
+    }
+    return { ...(await this.previewOf(path)), encoding: 'utf-8' };
   }
 
   // ---- reading ------------------------------------------------------------
@@ -460,6 +476,8 @@ export class ImportsService implements OnApplicationBootstrap {
             : null
           : `The file cannot be read as ${row.kind}: ${outcome.fatal}.${this.kindHint(row.kind, outcome.headers)}`;
       if (fatal) {
+        // Files first, so that whoever sees the import failed finds nothing left on disk.
+        await this.removeWorkingFiles(id);
         await this.dataSource.query(
           `UPDATE imports SET status = 'failed', progress_phase = NULL, validation_ms = $2,
              validated_at = now(), message = $3 WHERE id = $1`,
@@ -487,6 +505,7 @@ export class ImportsService implements OnApplicationBootstrap {
         this.config.studentNumberPattern,
       );
       this.logger.error(`Validation of import ${id} failed: ${reason}`);
+      await this.removeWorkingFiles(id);
       await this.fail(id, `Validation failed: ${reason}`);
     } finally {
       if (!open) await this.removeWorkingFiles(id);
@@ -623,7 +642,9 @@ export class ImportsService implements OnApplicationBootstrap {
       const earlier = await this.committedImportOf(row.file_digest, id);
       await this.fail(
         id,
-        earlier ? this.duplicate(earlier).message : 'The same file is being committed already.',
+        earlier
+          ? (this.duplicate(earlier).getResponse() as { message: string }).message
+          : 'The same file is being committed already.',
       );
       await this.removeWorkingFiles(id);
       return;
@@ -644,6 +665,8 @@ export class ImportsService implements OnApplicationBootstrap {
           .query(`UPDATE imports SET progress_done = $2 WHERE id = $1`, [id, rows])
           .catch(() => undefined);
       });
+      // The rows are in the transaction: the working files go before anyone sees it committed.
+      await this.removeWorkingFiles(id);
       await runner.commitTransaction();
       this.logger.log(`Import ${id} committed in ${Date.now() - started} ms.`);
       this.events.publish({
@@ -656,6 +679,7 @@ export class ImportsService implements OnApplicationBootstrap {
       if (runner.isTransactionActive) await runner.rollbackTransaction().catch(() => undefined);
       const reason = this.describeWriteError(error);
       this.logger.error(`Commit of import ${id} failed: ${reason}`);
+      await this.removeWorkingFiles(id);
       await this.fail(id, `The commit failed and nothing was written: ${reason}`);
     } finally {
       await runner.release();

@@ -61,31 +61,6 @@ function selectFromStage(kind: ImportKind): string {
   }
 }
 
-/**
- * From this many rows on, the table's foreign keys are dropped for the write and
- * added back (which checks every row in one join) inside the same transaction:
- * far faster than one trigger call per row, at the price of holding the table
- * exclusively for the commit. A failed check rolls the whole import back.
- */
-export const BULK_ROWS = 100_000;
-
-async function suspendForeignKeys(client: ClientBase, table: string) {
-  await client.query(`LOCK TABLE ${table} IN ACCESS EXCLUSIVE MODE`);
-  const { rows } = await client.query<{ name: string; definition: string }>(
-    `SELECT conname AS name, pg_get_constraintdef(oid) AS definition FROM pg_constraint
-     WHERE conrelid = $1::regclass AND contype = 'f' ORDER BY conname`,
-    [table],
-  );
-  for (const fk of rows) await client.query(`ALTER TABLE ${table} DROP CONSTRAINT ${fk.name}`);
-  return {
-    async restore() {
-      for (const fk of rows) {
-        await client.query(`ALTER TABLE ${table} ADD CONSTRAINT ${fk.name} ${fk.definition}`);
-      }
-    },
-  };
-}
-
 export interface CommitCounts {
   inserted: number;
   replaced: number;
@@ -155,8 +130,10 @@ export async function commitRows(
   );
   step('old values');
   const columns = [...spec.key, ...spec.values, 'import_id'];
-  const bulk = copied >= BULK_ROWS ? await suspendForeignKeys(client, spec.table) : null;
-  step('suspend checks');
+  // The foreign keys stay in place and check row by row: dropping and re-adding them
+  // would hold this table and the tables it refers to (courses, students) exclusively
+  // until the commit ends, and every page reads those. Rows and row locks only, so
+  // readers go on seeing the term data as it was until the commit.
   const written = await client.query(
     `INSERT INTO ${spec.table} (${columns.join(', ')})
      ${selectFromStage(kind)}
@@ -166,10 +143,6 @@ export async function commitRows(
     [importId],
   );
   step('upsert');
-  if (bulk) {
-    await bulk.restore();
-    step('re-check references');
-  }
   await client.query(`DROP TABLE pg_temp.import_stage`);
   const replaced = kept.rowCount ?? 0;
   return { inserted: (written.rowCount ?? 0) - replaced, replaced, studentsCreated };

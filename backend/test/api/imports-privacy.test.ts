@@ -24,7 +24,10 @@ let server: TestServer;
 let url: string;
 let token: string;
 const db = <T>(fn: Parameters<typeof withDatabase<T>>[0]) => withDatabase(fn, server.databaseName);
-const files = () => readdirSync(uploads).sort();
+const files = (id?: string) =>
+  readdirSync(uploads)
+    .filter((f) => id === undefined || f.startsWith(id))
+    .sort();
 
 beforeAll(async () => {
   // Left behind by a crash: a raw upload and a half-received one, of no open import.
@@ -143,18 +146,18 @@ describe('privacy of the import path', () => {
     const res = await upload(url, token, 'records', csv);
     await settle(url, token, res.body.id);
     const id = res.body.id as string;
-    expect(files()).toEqual([`${id}.accepted.csv`, `${id}.upload.csv`]);
-    for (const f of files()) expect(statSync(join(uploads, f)).mode & 0o777).toBe(0o600);
+    expect(files(id)).toEqual([`${id}.accepted.csv`, `${id}.upload.csv`]);
+    for (const f of files(id)) expect(statSync(join(uploads, f)).mode & 0o777).toBe(0o600);
     const commit = await request(url)
       .post(`/api/imports/${id}/commit`)
       .set(...bearer(token));
     expect(commit.status).toBe(202);
     expect((await settle(url, token, id)).status).toBe('committed');
-    expect(files()).toEqual([]);
+    expect(files(id)).toEqual([]);
 
     const fatal = await upload(url, token, 'records', 'nothing,useful\n1,2\n');
     expect((await settle(url, token, fatal.body.id)).status).toBe('failed');
-    expect(files()).toEqual([]);
+    expect(files(fatal.body.id)).toEqual([]);
   });
 
   it('refuses NUL in a cell at validation, with line and column', async () => {
@@ -177,8 +180,11 @@ describe('privacy of the import path', () => {
         reason: 'holds a control character (NUL) at position 6; remove it',
       },
     ]);
-    await request(url)
+    expect(files(res.body.id)).toHaveLength(2);
+    const discarded = await request(url)
       .post(`/api/imports/${res.body.id}/discard`)
       .set(...bearer(token));
+    expect(discarded.body.status).toBe('discarded');
+    expect(files(res.body.id)).toEqual([]);
   });
 });

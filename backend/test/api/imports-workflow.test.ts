@@ -129,7 +129,7 @@ describe('correcting an import before it is committed', () => {
     expect(rows.text.replace(/^\ufeff/, '').split('\r\n')).toEqual([
       'student_id;term;course_code;grade;note;reason',
       'HX3000002;2025-SP;CMP 9999;B;"has; semicolon";course_code: course \'CMP 9999\' is not in the catalogue',
-      "HX3000003;2025-FALL;CMP 2310;Q;x;term: '2025-FALL' is not a term of the form YYYY-XX (XX one of WI, SP, SU, FA); grade: 'Q' is not on the grade scale (A … F) nor a mark (W, I, IP, AU, P, NP), nor grade points from 0 to 4",
+      "HX3000003;2025-FALL;CMP 2310;Q;x;\"grade: 'Q' is not on the grade scale (A … F) nor a mark (W, I, IP, AU, P, NP), nor grade points from 0 to 4; term: '2025-FALL' is not a term of the form YYYY-XX (XX one of WI, SP, SU, FA)\"",
       '',
     ]);
     // Not stored anywhere: the rows come from the upload, which the commit removes.
@@ -236,7 +236,7 @@ describe('odd files', () => {
     ]);
     const asked = await upload(url, token, 'catalogue', latin);
     expect(asked.status).toBe(422);
-    expect(asked.body).toMatchObject({ detectedEncoding: 'windows-1252' });
+    expect(asked.body.details).toMatchObject({ detectedEncoding: 'windows-1252' });
     expect(asked.body.message).toMatch(/not UTF-8; it looks like Windows-1252/);
     const preview = await request(url)
       .post('/api/imports/preview')
@@ -256,7 +256,7 @@ describe('odd files', () => {
       Buffer.from('course_code,title,department\nGEO 2200,Fjällkartor,GEO\n', 'utf16le'),
     ]);
     const asked16 = await upload(url, token, 'catalogue', utf16);
-    expect(asked16.body.detectedEncoding).toBe('utf-16le');
+    expect(asked16.body.details.detectedEncoding).toBe('utf-16le');
     const read16 = await upload(url, token, 'catalogue', utf16, {
       encoding: 'utf-16le',
       commit: 'true',

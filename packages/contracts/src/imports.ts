@@ -72,6 +72,8 @@ export interface ImportSummary {
   status: ImportStatus;
   /** The file's name, with anything shaped like a student number withheld. */
   fileName: string;
+  /** The mapping the file was checked with (file header to field), or null for the default names. */
+  mapping: ImportMapping | null;
   /** Keyed digest of the file (HMAC under the pseudonym key) that finds the same file again. */
   fileDigest: string;
   rowsTotal: number | null;
@@ -151,10 +153,8 @@ export const IMPORT_ENCODINGS = [
 ] as const;
 export type ImportEncoding = (typeof IMPORT_ENCODINGS)[number];
 
-/** The answer (422) to a file that is not UTF-8 and whose encoding was not confirmed. */
+/** `details` of the answer (422) to a file that is not UTF-8 and whose encoding was not confirmed. */
 export interface ImportEncodingQuestion {
-  statusCode: 422;
-  message: string;
   detectedEncoding: ImportEncoding;
   encodingName: string;
 }

@@ -117,6 +117,7 @@ export function headerLooksLikeData(headers: string[], studentNumber?: RegExp): 
  * A control character other than tab and line break: a line break can only stand
  * inside quotes (a multi-line description), a tab is refused separately when unquoted.
  */
+// eslint-disable-next-line no-control-regex -- control characters are what it finds
 const CONTROL = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f]/;
 
 const controlName = (char: string) =>
@@ -165,7 +166,7 @@ export async function validateFile(options: ValidateFileOptions): Promise<Valida
     });
   };
 
-  const out = createWriteStream(options.acceptedPath, { encoding: 'utf8' });
+  const out = createWriteStream(options.acceptedPath, { encoding: 'utf8', mode: 0o600 });
   const outClosed = once(out, 'close');
   let buffer = '';
   const flush = async () => {
@@ -324,6 +325,7 @@ function checkText(
     if (control) {
       reject(
         field,
+        // eslint-disable-next-line no-control-regex -- shown without the characters it refuses
         field === 'student_id' ? shown : value.replace(/[\u0000-\u001f\u007f]/g, ' '),
         `holds a control character (${controlName(control[0])}) at position ${control.index + 1}; remove it`,
       );

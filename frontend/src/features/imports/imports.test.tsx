@@ -32,6 +32,7 @@ function summary(overrides: Partial<ImportSummary> = {}): ImportSummary {
     status: 'validated',
     fileName: 'term-data-2026-FA.csv',
     fileDigest: 'ab'.repeat(32),
+    mapping: null,
     rowsTotal: 1207,
     rowsAccepted: 1204,
     rowsRejected: 3,
@@ -188,6 +189,15 @@ describe('the upload form', { timeout: 40_000 }, () => {
     );
     expect(await uploadForm().findByText(/Every catalogue column was found/)).toBeInTheDocument();
     await user.click(uploadForm().getByLabelText('Commit at once when no row is rejected'));
+    // Optional fields the file does not give are named; nothing is sent until that is confirmed.
+    await user.click(uploadForm().getByRole('button', { name: 'Upload and check' }));
+    expect(
+      await uploadForm().findByText(
+        'Left empty in every row: credits, level, elective, prerequisites, description (no column of the file gave them).',
+      ),
+    ).toBeInTheDocument();
+    expect(sent).toBeUndefined();
+    await user.click(uploadForm().getByLabelText('Import without them'));
     await user.click(uploadForm().getByRole('button', { name: 'Upload and check' }));
 
     expect(
@@ -258,6 +268,7 @@ describe('the upload form', { timeout: 40_000 }, () => {
       },
     });
 
+    await user.click(uploadForm().getByLabelText('Import without them'));
     await user.click(uploadForm().getByRole('button', { name: 'Upload and check' }));
     await screen.findByRole('heading', { level: 2, name: /Term data import/ });
     expect(JSON.parse(sent?.get('mapping') as string)).toEqual({
@@ -276,8 +287,10 @@ describe('the upload form', { timeout: 40_000 }, () => {
         status: 409,
         data: {
           statusCode: 409,
-          message: `This file was imported already: import ${earlier} (catalogue, uploaded 2026-11-02T10:00:00.000Z, committed).`,
+          message:
+            "This file was committed already: the catalogue import of 'catalogue.csv' committed 2026-11-02 10:00 UTC. Roll that import back first to import the same file again.",
           error: 'Conflict',
+          details: { earlierImportId: earlier },
         },
       }),
       [`GET /imports/${earlier}`]: () => ({
@@ -292,10 +305,13 @@ describe('the upload form', { timeout: 40_000 }, () => {
     await screen.findByRole('heading', { level: 1, name: 'Imports' });
     await user.selectOptions(uploadForm().getByLabelText('Kind of file'), 'catalogue');
     await user.upload(uploadForm().getByLabelText('Choose a CSV file'), csv('catalogue.csv', 'x'));
+    await user.click(uploadForm().getByLabelText('Import without them'));
     await user.click(uploadForm().getByRole('button', { name: 'Upload and check' }));
 
-    const alert = await uploadForm().findByRole('alert');
-    expect(alert).toHaveTextContent('This file was imported before');
+    const alert = await uploadForm().findByText(/^This file was committed already/);
+    expect(alert).toHaveTextContent(
+      "the catalogue import of 'catalogue.csv' committed 2026-11-02 10:00 UTC",
+    );
     await user.click(within(alert).getByRole('link', { name: 'Open the earlier import' }));
     expect(router.state.location.search).toBe(`?import=${earlier}`);
     expect(
@@ -434,7 +450,7 @@ describe('commit and rollback', { timeout: 40_000 }, () => {
     );
     expect(await detail.findByText('HRX 9999')).toBeInTheDocument();
 
-    await user.click(detail.getByRole('button', { name: 'Download rejected rows (CSV)' }));
+    await user.click(detail.getByRole('button', { name: 'Download validation report (CSV)' }));
     await waitFor(() => expect(click).toHaveBeenCalled());
     expect(csvAccept).toBe('text/csv');
     expect(createObjectURL).toHaveBeenCalled();
