@@ -2,19 +2,9 @@ import { readFile } from 'node:fs/promises';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { expectAccessible, launchBrowser, signIn } from './support/browser';
+import { runDepartment } from './support/run-code';
 
-/** A department code from the clock, so every run brings new courses and new files. */
-function runDepartment(): string {
-  let n = Math.floor(Date.now() / 1000);
-  let code = '';
-  for (let i = 0; i < 4; i++) {
-    code = String.fromCharCode(65 + (n % 26)) + code;
-    n = Math.floor(n / 26);
-  }
-  return `W${code}`;
-}
-
-const DEPARTMENT = runDepartment();
+const DEPARTMENT = runDepartment('W');
 const CATALOGUE_CSV = [
   'course_code,title,department,credits,level,elective,prerequisites,description',
   `${DEPARTMENT} 1101,Harbour Ecology,${DEPARTMENT},3,1000,yes,,`,

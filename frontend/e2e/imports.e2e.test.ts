@@ -2,22 +2,9 @@ import { readFile } from 'node:fs/promises';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { baseUrl, expectAccessible, launchBrowser, signIn } from './support/browser';
+import { runDepartment } from './support/run-code';
 
-/**
- * A department code of five letters from the clock, so that every run imports new courses and
- * new files (the server refuses a file it has imported before).
- */
-function runDepartment(): string {
-  let n = Math.floor(Date.now() / 1000);
-  let code = '';
-  for (let i = 0; i < 4; i++) {
-    code = String.fromCharCode(65 + (n % 26)) + code;
-    n = Math.floor(n / 26);
-  }
-  return `Q${code}`;
-}
-
-const DEPARTMENT = runDepartment();
+const DEPARTMENT = runDepartment('Q');
 const CATALOGUE_FILE = `catalogue-${DEPARTMENT}.csv`;
 const TERM_DATA_FILE = `term-data-${DEPARTMENT}.csv`;
 

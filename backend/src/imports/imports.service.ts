@@ -389,14 +389,19 @@ export class ImportsService implements OnApplicationBootstrap {
 
   /** The preview of a validated import's kept upload, to choose another mapping. */
   async keptPreview(id: string): Promise<ImportPreview> {
+    const { path } = await this.keptUpload(
+      id,
+      'The file of this import is no longer kept: it is kept only while the import is validated and not yet committed or discarded. Upload the file again.',
+    );
+    return { ...(await this.previewOf(path)), encoding: 'utf-8' };
+  }
+
+  /** The import and its kept upload, or 409 with `gone` when the file is no longer kept. */
+  private async keptUpload(id: string, gone: string): Promise<{ row: ImportRow; path: string }> {
     const row = await this.row(id);
     const path = uploadPath(this.config.dataDir, id);
-    if (row.status !== 'validated' || !existsSync(path)) {
-      throw new ConflictException(
-        'The file of this import is no longer kept: it is kept only while the import is validated and not yet committed or discarded. Upload the file again.',
-      );
-    }
-    return { ...(await this.previewOf(path)), encoding: 'utf-8' };
+    if (row.status !== 'validated' || !existsSync(path)) throw new ConflictException(gone);
+    return { row, path };
   }
 
   // ---- reading ------------------------------------------------------------
@@ -800,13 +805,10 @@ export class ImportsService implements OnApplicationBootstrap {
    * upload (never stored): ready to fix and import again.
    */
   async rejectedRowsCsv(id: string): Promise<string> {
-    const row = await this.row(id);
-    const path = uploadPath(this.config.dataDir, id);
-    if (row.status !== 'validated' || !existsSync(path)) {
-      throw new ConflictException(
-        'The rejected rows can be downloaded only while the import is validated and not yet committed or discarded: the uploaded file is kept until then.',
-      );
-    }
+    const { row, path } = await this.keptUpload(
+      id,
+      'The rejected rows can be downloaded only while the import is validated and not yet committed or discarded: the uploaded file is kept until then.',
+    );
     const reasons = new Map<number, string[]>();
     for (const r of await this.rejections(id)) {
       const list = reasons.get(r.line) ?? [];

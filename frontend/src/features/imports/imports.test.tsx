@@ -164,6 +164,58 @@ describe('the upload form', { timeout: 40_000 }, () => {
     expect(api.requests.filter((r) => r.method === 'POST')).toEqual([]);
   });
 
+  it('asks to confirm the encoding of a file that is not UTF-8, then sends it with that encoding', async () => {
+    let sent: FormData | undefined;
+    const previews: (string | null)[] = [];
+    api = importsApi({
+      'POST /imports/preview': ({ body }) => {
+        const encoding = (body as FormData).get('encoding') as string | null;
+        previews.push(encoding);
+        return encoding === 'windows-1252'
+          ? { status: 200, data: { ...DEFAULT_HEADERS_PREVIEW, encoding: 'windows-1252' } }
+          : {
+              status: 422,
+              data: {
+                statusCode: 422,
+                message:
+                  'The file is not UTF-8; it looks like Windows-1252 (Western European). Confirm the encoding to read it in, or save the file as UTF-8.',
+                error: 'Unprocessable Entity',
+                details: {
+                  detectedEncoding: 'windows-1252',
+                  encodingName: 'Windows-1252 (Western European)',
+                },
+              },
+            };
+      },
+      'POST /imports': ({ body }) => {
+        sent = body as FormData;
+        return { status: 202, data: { id: TERM_DATA_ID, status: 'queued' } };
+      },
+      [`GET /imports/${TERM_DATA_ID}`]: () => ({
+        status: 200,
+        data: summary({ kind: 'catalogue' }),
+      }),
+      [`GET /imports/${TERM_DATA_ID}/errors`]: () => ({ status: 200, data: [] }),
+    });
+    signInAs('registrar');
+    renderApp('/registrar/imports');
+    const user = userEvent.setup();
+    await screen.findByRole('heading', { level: 1, name: 'Imports' });
+    await user.selectOptions(uploadForm().getByLabelText('Kind of file'), 'catalogue');
+    await user.upload(uploadForm().getByLabelText('Choose a CSV file'), csv('latin.csv', 'x'));
+    const question = await uploadForm().findByText(/it looks like Windows-1252/);
+    expect(question).toHaveTextContent('Characters are never replaced');
+    await user.click(
+      uploadForm().getByRole('button', { name: 'Read it as Windows-1252 (Western European)' }),
+    );
+    expect(await uploadForm().findByText(/Every catalogue column was found/)).toBeInTheDocument();
+    expect(previews).toEqual([null, 'windows-1252']);
+    await user.click(uploadForm().getByLabelText('Import without them'));
+    await user.click(uploadForm().getByRole('button', { name: 'Upload and check' }));
+    await screen.findByRole('heading', { level: 2, name: /Catalogue import/ });
+    expect(sent?.get('encoding')).toBe('windows-1252');
+  });
+
   it('sends the file with its kind and shows the new import', async () => {
     let sent: FormData | undefined;
     api = importsApi({

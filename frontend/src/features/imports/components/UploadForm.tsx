@@ -17,7 +17,7 @@ import {
   type ImportEncoding,
   type ImportKind,
 } from '@kinpath/contracts';
-import { apiMessage } from '../../../lib/api-client';
+import { apiMessage, httpStatus } from '../../../lib/api-client';
 import { fieldProps } from '../../../lib/form';
 import { usePreview, useUpload } from '../api/imports';
 import {
@@ -216,7 +216,12 @@ export function UploadForm({ onUploaded }: UploadFormProps) {
             Read as {encoding === 'utf-8' ? 'UTF-8' : encoding}; check the first rows below.
           </Typography>
         ) : null}
-        {file && preview.isError && !question ? (
+        {file && preview.isError && !question && httpStatus(preview.error) === 400 ? (
+          // An empty or binary file: the server says what it is, and it cannot be imported.
+          <Alert severity="error" role="alert">
+            {apiMessage(preview.error)}
+          </Alert>
+        ) : file && preview.isError && !question ? (
           <Alert severity="warning" role="alert">
             The file’s first rows could not be read ({apiMessage(preview.error) ?? 'no answer'}). It
             can still be uploaded; the server checks every row.
