@@ -52,7 +52,7 @@ import {
   UNQUOTED_TAB,
 } from './validation/csv-format';
 import { validateFile, resolveColumns, headerLooksLikeData } from './validation/validate-file';
-import { withholdStudentNumbers } from './validation/withhold';
+import { looksLikeStudentNumber, withholdStudentNumbers } from './validation/withhold';
 
 /** Audit actions of the import feature; detail never holds a student number. */
 export const IMPORT_AUDIT = {
@@ -323,6 +323,12 @@ export class ImportsService implements OnApplicationBootstrap {
     const mapping: ImportMapping = {};
     for (const [header, field] of Object.entries(value as Record<string, unknown>)) {
       if (field === null || field === '') continue;
+      // A mapping is stored: a "header" that is a student number means a file without one.
+      if (looksLikeStudentNumber(header, this.config.studentNumberPattern)) {
+        throw new BadRequestException(
+          'The mapping names a column that looks like a student number: the first line of the file holds data, not column names. Add a header row naming the columns.',
+        );
+      }
       if (typeof field !== 'string' || !fields.includes(field)) {
         throw new BadRequestException(
           `mapping: '${String(field)}' (for column '${header}') is not a field of ${kind}; the fields are ${fields.join(', ')}.`,

@@ -74,6 +74,12 @@ describe('privacy of the import path', () => {
     const failed = await settle(url, token, headerless.body.id);
     expect(failed.status).toBe('failed');
     expect(failed.message).toMatch(/the first line holds data, not column names/);
+    const mapped = await upload(url, token, 'records', 'PV7000004,2025-SP,CMP 2310,A,4,3\n', {
+      mapping: JSON.stringify({ PV7000004: 'student_id' }),
+    });
+    expect(mapped.status).toBe(400);
+    expect(mapped.body.message).toMatch(/the first line of the file holds data/);
+    expect(mapped.body.message).not.toContain('PV7');
     const misplaced = await upload(
       url,
       token,
