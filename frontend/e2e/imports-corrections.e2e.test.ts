@@ -190,13 +190,31 @@ describe('correcting an import in the browser', () => {
           })
           .map((table) => table.getAttribute('aria-labelledby') ?? 'table')
           .map((id) => document.getElementById(id)?.textContent ?? id);
-        return { sideways: doc.scrollWidth - doc.clientWidth, clipped };
+        // What sticks out past the page's right edge, innermost last, to say what to fix.
+        const beyond = [...document.querySelectorAll('body *')]
+          .filter((el) => {
+            if (el.getBoundingClientRect().right <= doc.clientWidth + 0.5) return false;
+            // Inside a box that scrolls (or clips) within the page, it does not widen the page.
+            for (let up = el.parentElement; up && up !== document.body; up = up.parentElement) {
+              if (
+                getComputedStyle(up).overflowX !== 'visible' &&
+                up.getBoundingClientRect().right <= doc.clientWidth + 0.5
+              ) {
+                return false;
+              }
+            }
+            return true;
+          })
+          .slice(-3)
+          .map((el) => `${el.tagName.toLowerCase()}.${String(el.className).slice(0, 80)}`);
+        return { sideways: doc.scrollWidth - doc.clientWidth, clipped, beyond };
       });
       // Narrower, a wide table may scroll inside its own focusable box, never the page.
       expect({ width, ...layout }).toEqual({
         width,
         sideways: 0,
         clipped: width >= 1366 ? [] : layout.clipped,
+        beyond: [],
       });
     }
     await page.setViewportSize({ width: 1366, height: 900 });

@@ -49,7 +49,6 @@ import {
   headerKey,
   readHeaderLine,
   reportCell,
-  UNQUOTED_TAB,
 } from './validation/csv-format';
 import { validateFile, resolveColumns, headerLooksLikeData } from './validation/validate-file';
 import { looksLikeStudentNumber, withholdStudentNumbers } from './validation/withhold';
@@ -365,7 +364,7 @@ export class ImportsService implements OnApplicationBootstrap {
     const records: string[][] = [];
     try {
       for await (const item of parser as AsyncIterable<{ record: string[] }>) {
-        records.push(item.record.map((c) => c.replace(UNQUOTED_TAB, '')));
+        records.push(item.record);
         if (records.length >= 21) break;
       }
     } catch {
@@ -825,12 +824,10 @@ export class ImportsService implements OnApplicationBootstrap {
     const parser = csvParser(delimiter);
     const source = createReadStream(path);
     source.pipe(parser);
-    const cell = (v: string) => {
-      const clean = v.replace(UNQUOTED_TAB, '');
-      return /["\r\n]/.test(clean) || clean.includes(delimiter) || clean.trim() !== clean
-        ? `"${clean.replace(/"/g, '""')}"`
-        : clean;
-    };
+    const cell = (v: string) =>
+      /["\r\n\t]/.test(v) || v.includes(delimiter) || v.trim() !== v
+        ? `"${v.replace(/"/g, '""')}"`
+        : v;
     const lines: string[] = [];
     let first = true;
     try {

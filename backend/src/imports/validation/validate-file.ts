@@ -7,8 +7,8 @@ import {
   csvParser,
   detectDelimiter,
   headerKey,
+  fieldIsQuoted,
   readHeaderLine,
-  UNQUOTED_TAB,
 } from './csv-format';
 import type { Delimiter } from './csv-format';
 import { rulesFor, TEXT_LIMITS, WITHHELD_STUDENT_ID, type RuleContext } from './row-rules';
@@ -125,7 +125,7 @@ const controlName = (char: string) =>
 
 /** What a rejection keeps of a cell: never a student number, never more than 200 characters. */
 function storedValue(value: string, studentNumber?: RegExp): string {
-  const clean = withholdStudentNumbers(value.replace(UNQUOTED_TAB, ''), studentNumber);
+  const clean = withholdStudentNumbers(value, studentNumber);
   return clean.length > 200 ? `${clean.slice(0, 200)}…` : clean;
 }
 
@@ -201,6 +201,7 @@ export async function validateFile(options: ValidateFileOptions): Promise<Valida
     return i === undefined ? '' : (cells[i] ?? '');
   };
   let line = 0;
+  let raw = '';
   let rowOk = true;
   const reject = (field: string, value: string, reason: string) => {
     rowOk = false;
@@ -210,12 +211,14 @@ export async function validateFile(options: ValidateFileOptions): Promise<Valida
   try {
     for await (const item of parser as AsyncIterable<{
       record: string[];
+      raw: string;
       info: { lines: number };
     }>) {
       cells = item.record;
+      raw = item.raw;
       line = item.info.lines;
       if (columns === null) {
-        result.headers = cells.map((h) => h.replace(UNQUOTED_TAB, '').trim());
+        result.headers = cells.map((h) => h.trim());
         columns = resolveColumns(kind, result.headers, options.mapping, studentNumber);
         if (columns.problem) {
           result.fatal = columns.problem;
@@ -232,7 +235,7 @@ export async function validateFile(options: ValidateFileOptions): Promise<Valida
           '',
           `the row has ${cells.length} field${cells.length === 1 ? '' : 's'} where the header has ${result.headers.length}`,
         );
-      } else if (checkText(columns, cells, reject)) {
+      } else if (checkText(columns, cells, (i) => fieldIsQuoted(raw, delimiter, i), reject)) {
         const row = rules.check(cell, line, reject);
         if (row !== null && rowOk) {
           const text = row.map(copyCell).join(',') + '\n';
@@ -306,13 +309,14 @@ export async function validateFile(options: ValidateFileOptions): Promise<Valida
 function checkText(
   columns: ResolvedColumns,
   cells: string[],
+  quoted: (index: number) => boolean,
   reject: (field: string, value: string, reason: string) => void,
 ): boolean {
   let ok = true;
   for (const [field, i] of columns.index) {
     const value = cells[i] ?? '';
     const shown = field === 'student_id' ? WITHHELD_STUDENT_ID : value;
-    if (value.startsWith(UNQUOTED_TAB)) {
+    if (value.includes('\t') && !quoted(i)) {
       reject(
         field,
         shown,
