@@ -1,13 +1,19 @@
 #!/usr/bin/env node
 // Import throughput: a records file of 1,000,000 rows (invented, fixed seed)
 // validated and committed through the import path, beside a plain COPY of the
-// same file into an unindexed table. Prints figures; asserts nothing.
+// same file into an unindexed table. While the commit runs, a server of its own on
+// the same database answers GET /api/courses in a loop, and the bench prints how
+// long those readers waited (p50, p95, max) beside the same figures at rest.
+// Prints figures; asserts nothing.
 //
-//   PGHOST=… PGPORT=… PGUSER=… PGPASSWORD=… node backend/bench/imports.bench.mjs [--rows 1000000]
+//   PGHOST=… PGPORT=… PGUSER=… PGPASSWORD=… node backend/bench/imports.bench.mjs \
+//     [--rows 1000000] [--reader-port N (a free port by default; never 3398 or 3399)]
 //
 // Uses the built backend (npm run build -w @kinpath/backend). Works in a scratch
 // database of its own (created through the PG* connection, dropped at the end).
+import { spawn } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
+import { createServer } from 'node:net';
 import { createReadStream, createWriteStream, mkdtempSync, rmSync, statSync } from 'node:fs';
 import { once } from 'node:events';
 import { tmpdir } from 'node:os';
@@ -29,6 +35,11 @@ const { pseudonymFor } = require(join(dist, 'pseudonym', 'pseudonym.js'));
 
 const args = process.argv.slice(2);
 const ROWS = Number(args[args.indexOf('--rows') + 1] || 0) || 1_000_000;
+const READER_PORT = args.includes('--reader-port')
+  ? Number(args[args.indexOf('--reader-port') + 1])
+  : 0;
+// Those two belong to the electives benchmarks, which may run beside this one.
+if ([3398, 3399].includes(READER_PORT)) throw new Error('--reader-port: 3398 and 3399 are taken');
 const SEED = 20260417;
 
 function mulberry32(seed) {
@@ -88,6 +99,88 @@ async function writeRecords(path, rows) {
 
 const seconds = (ms) => (ms / 1000).toFixed(2);
 
+function freePort() {
+  return new Promise((done, fail) => {
+    const probe = createServer();
+    probe.once('error', fail);
+    probe.listen(0, '127.0.0.1', () => {
+      const { port } = probe.address();
+      probe.close(() => ([3398, 3399].includes(port) ? freePort().then(done, fail) : done(port)));
+    });
+  });
+}
+
+/** The built server on the bench's database, demo off, one admin to read the catalogue as. */
+async function startReaderServer(dbConfig, work) {
+  const port = READER_PORT || (await freePort());
+  const password = randomBytes(12).toString('hex');
+  const email = 'bench-admin@halden.example';
+  const env = {};
+  for (const [k, v] of Object.entries(process.env)) if (!k.startsWith('KINPATH_')) env[k] = v;
+  const child = spawn(process.execPath, [join(dist, 'main.js')], {
+    env: {
+      ...env,
+      HOST: '127.0.0.1',
+      PORT: String(port),
+      KINPATH_DB_HOST: dbConfig.host,
+      KINPATH_DB_PORT: String(dbConfig.port),
+      KINPATH_DB_NAME: dbConfig.name,
+      KINPATH_DB_USER: dbConfig.user,
+      KINPATH_DB_PASSWORD: dbConfig.password,
+      KINPATH_DATA_DIR: join(work, 'server'),
+      KINPATH_DEMO: 'off',
+      KINPATH_ADMIN_EMAIL: email,
+      KINPATH_ADMIN_PASSWORD: password,
+      KINPATH_PSEUDONYM_KEY: 'halden-bench-pseudonym-key',
+      KINPATH_SCORING_PROCESSES: '0',
+      KINPATH_LOG_LEVEL: 'error',
+    },
+    stdio: ['ignore', 'ignore', 'inherit'],
+  });
+  const url = `http://127.0.0.1:${port}`;
+  const deadline = Date.now() + 60_000;
+  for (;;) {
+    if (child.exitCode !== null) throw new Error('the reader server exited');
+    try {
+      if ((await fetch(`${url}/api/health`)).ok) break;
+    } catch {
+      // not listening yet
+    }
+    if (Date.now() > deadline) throw new Error('the reader server did not start');
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  const login = await fetch(`${url}/api/auth/login`, {
+    method: 'POST',
+    headers: { 'Content-Type': 'application/json' },
+    body: JSON.stringify({ email, password }),
+  });
+  const { accessToken } = await login.json();
+  return { url, token: accessToken, stop: () => child.kill('SIGTERM') };
+}
+
+/** GET /api/courses one after another until `until` resolves; the time of each. */
+async function readWhile(server, until) {
+  const times = [];
+  let done = false;
+  until.finally(() => (done = true));
+  do {
+    const t = performance.now();
+    const res = await fetch(`${server.url}/api/courses`, {
+      headers: { Authorization: `Bearer ${server.token}` },
+    });
+    await res.arrayBuffer();
+    if (!res.ok) throw new Error(`GET /api/courses answered ${res.status}`);
+    times.push(performance.now() - t);
+  } while (!done);
+  return times;
+}
+
+function latency(times) {
+  const sorted = [...times].sort((a, b) => a - b);
+  const at = (q) => sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))];
+  return `p50 ${at(0.5).toFixed(1)} ms, p95 ${at(0.95).toFixed(1)} ms, max ${sorted[sorted.length - 1].toFixed(1)} ms over ${sorted.length} requests`;
+}
+
 async function main() {
   const admin = new pg.Client({ database: process.env.PGDATABASE || 'postgres' });
   await admin.connect();
@@ -102,6 +195,7 @@ async function main() {
     password: process.env.PGPASSWORD || '',
   };
   const dataSource = new DataSource({ ...dataSourceOptions(dbConfig), logging: false });
+  let reader = null;
   try {
     let t = Date.now();
     const file = join(work, 'records.csv');
@@ -120,9 +214,10 @@ async function main() {
       `INSERT INTO courses (course_code, title, department) SELECT c, 'Course ' || c, split_part(c, ' ', 1) FROM unnest($1::text[]) c`,
       [COURSES],
     );
+    reader = await startReaderServer({ ...dbConfig, name: database }, work);
     const { rows } = await client.query(
-      `INSERT INTO imports (kind, status, file_name, file_sha256, file_bytes)
-       VALUES ('records', 'validating', 'records.csv', repeat('0', 64), $1) RETURNING id`,
+      `INSERT INTO imports (kind, status, file_name, file_digest, digest_keyed, file_bytes)
+       VALUES ('records', 'validating', 'records.csv', repeat('0', 64), true, $1) RETURNING id`,
       [statSync(file).size],
     );
     const importId = rows[0].id;
@@ -145,20 +240,28 @@ async function main() {
     if (result.rowsRejected > 0)
       throw new Error(`unexpected rejections: ${JSON.stringify(result.rejections[0])}`);
 
+    const atRest = await readWhile(reader, new Promise((r) => setTimeout(r, 3000)));
     t = Date.now();
-    await client.query('BEGIN');
-    await client.query(TERM_DATA_LOCK);
-    const steps = [];
-    const counts = await commitRows(client, importId, 'records', accepted, undefined, (s, ms) =>
-      steps.push(`${s} ${seconds(ms)} s`),
-    );
-    console.log(`imports bench: commit steps: ${steps.join(', ')}`);
-    await client.query(
-      `UPDATE imports SET status = 'committed', committed_at = now() WHERE id = $1`,
-      [importId],
-    );
-    await client.query('COMMIT');
+    const commit = (async () => {
+      await client.query('BEGIN');
+      await client.query(TERM_DATA_LOCK);
+      const steps = [];
+      const written = await commitRows(client, importId, 'records', accepted, undefined, (s, ms) =>
+        steps.push(`${s} ${seconds(ms)} s`),
+      );
+      console.log(`imports bench: commit steps: ${steps.join(', ')}`);
+      await client.query(
+        `UPDATE imports SET status = 'committed', committed_at = now() WHERE id = $1`,
+        [importId],
+      );
+      await client.query('COMMIT');
+      return written;
+    })();
+    const during = await readWhile(reader, commit);
+    const counts = await commit;
     const commitMs = Date.now() - t;
+    console.log(`imports bench: GET /api/courses at rest: ${latency(atRest)}`);
+    console.log(`imports bench: GET /api/courses during the commit: ${latency(during)}`);
 
     await client.query(`CREATE UNLOGGED TABLE IF NOT EXISTS bench_plain (
       student_id text, term text, course_code text, grade text, satisfaction text, credits_attempted text)`);
@@ -185,6 +288,7 @@ async function main() {
     );
     console.log(`imports bench: ratio import / plain COPY = ${(totalMs / copyMs).toFixed(1)}`);
   } finally {
+    reader?.stop();
     if (dataSource.isInitialized) await dataSource.destroy();
     await admin.query(`DROP DATABASE IF EXISTS ${database} WITH (FORCE)`);
     await admin.end();

@@ -2,22 +2,9 @@ import { readFile } from 'node:fs/promises';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { baseUrl, expectAccessible, launchBrowser, signIn } from './support/browser';
+import { runDepartment } from './support/run-code';
 
-/**
- * A department code of five letters from the clock, so that every run imports new courses and
- * new files (the server refuses a file it has imported before).
- */
-function runDepartment(): string {
-  let n = Math.floor(Date.now() / 1000);
-  let code = '';
-  for (let i = 0; i < 4; i++) {
-    code = String.fromCharCode(65 + (n % 26)) + code;
-    n = Math.floor(n / 26);
-  }
-  return `Q${code}`;
-}
-
-const DEPARTMENT = runDepartment();
+const DEPARTMENT = runDepartment('Q');
 const CATALOGUE_FILE = `catalogue-${DEPARTMENT}.csv`;
 const TERM_DATA_FILE = `term-data-${DEPARTMENT}.csv`;
 
@@ -65,6 +52,8 @@ describe('registrar imports in the browser', () => {
     await form()
       .getByText(/column was found by its name/)
       .waitFor();
+    // Optional fields the file does not give are named, and leaving them out is confirmed.
+    await form().getByLabel('Import without them').check();
     if (commitAtOnce) await form().getByLabel('Commit at once when no row is rejected').check();
     await form().getByRole('button', { name: 'Upload and check' }).click();
   }
@@ -98,9 +87,9 @@ describe('registrar imports in the browser', () => {
 
     const [download] = await Promise.all([
       page.waitForEvent('download'),
-      detail.getByRole('button', { name: 'Download rejected rows (CSV)' }).click(),
+      detail.getByRole('button', { name: 'Download validation report (CSV)' }).click(),
     ]);
-    expect(download.suggestedFilename()).toBe(`term-data-${DEPARTMENT}-rejected-rows.csv`);
+    expect(download.suggestedFilename()).toBe(`term-data-${DEPARTMENT}-validation-report.csv`);
     const content = await readFile(await download.path(), 'utf8');
     const lines = content.trim().split(/\r?\n/);
     expect(lines[0]).toBe('line,column,value,reason');

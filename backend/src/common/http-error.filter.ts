@@ -51,11 +51,18 @@ export function toApiError(exception: unknown): ApiError {
     if (statusCode === 400 && JSON_PARSER_MESSAGE.test(exception.message)) {
       return { statusCode, message: 'The request body is not valid JSON.', error };
     }
-    const { message, error: name } = response as { message?: string | string[]; error?: string };
+    const {
+      message,
+      error: name,
+      details,
+    } = response as { message?: string | string[]; error?: string; details?: unknown };
     return {
       statusCode,
       message: message ?? exception.message,
       error: typeof name === 'string' ? name : error,
+      ...(details && typeof details === 'object'
+        ? { details: details as Record<string, string> }
+        : {}),
     };
   }
   // Errors raised by Express middleware (body parser) carry their status.

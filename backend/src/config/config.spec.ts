@@ -61,11 +61,13 @@ describe('configuration', () => {
     expect(
       studentNumberLikeWords('Met HR1000003 (and hr1000051); not HR12 or xHR1000003y.', pattern),
     ).toEqual(['HR1000003', 'hr1000051']);
-    // Years and course numbers have the form too; callers compare with the students on record.
-    expect(studentNumberLikeWords('CMP 2310 in 2026', pattern)).toEqual(['2310', '2026']);
+    // Course numbers and years are too short to be taken for one.
+    expect(studentNumberLikeWords('CMP 2310 in 2026', pattern)).toEqual([]);
     const custom = loadConfig({ ...base, KINPATH_STUDENT_NUMBER_PATTERN: 's\\d{7}' });
+    // Case-insensitive, like the withholding in import reports.
     expect(studentNumberLikeWords('s1234567, S1234567', custom.studentNumberPattern)).toEqual([
       's1234567',
+      'S1234567',
     ]);
     expect(() => loadConfig({ ...base, KINPATH_STUDENT_NUMBER_PATTERN: '([' })).toThrow(
       /KINPATH_STUDENT_NUMBER_PATTERN must be a regular expression/,

@@ -176,8 +176,11 @@ export function loadConfig(env: Env = process.env): AppConfig {
   };
 }
 
-/** A few letters, then 4 to 12 digits: the demo's HR1000003, and most registrars' forms. */
-export const DEFAULT_STUDENT_NUMBER_PATTERN = '[A-Za-z]{0,6}\\d{4,12}';
+/**
+ * Up to four letters, then 6 to 12 digits: the demo's HR1000003 and most registrars' forms.
+ * Six digits at least, so that course numbers (CMP 2310) and years are never taken for one.
+ */
+export const DEFAULT_STUDENT_NUMBER_PATTERN = '[A-Za-z]{0,4}[0-9]{6,12}';
 
 function studentNumberPattern(env: Env): string {
   const source = text(
@@ -198,10 +201,24 @@ function studentNumberPattern(env: Env): string {
   return source;
 }
 
+const finders = new Map<string, RegExp>();
+
+/**
+ * The pattern as a global, case-insensitive search for whole words (not inside a longer run
+ * of letters or digits); one per pattern, shared by every caller.
+ */
+export function studentNumberFinder(pattern: string): RegExp {
+  let finder = finders.get(pattern);
+  if (!finder) {
+    finder = new RegExp(`(?<![\\p{L}\\p{N}])(?:${pattern})(?![\\p{L}\\p{N}])`, 'giu');
+    finders.set(pattern, finder);
+  }
+  return finder;
+}
+
 /** Every whole word of `text` that has the form of a student number. */
 export function studentNumberLikeWords(text: string, pattern: string): string[] {
-  const finder = new RegExp(`(?<![\\p{L}\\p{N}])(?:${pattern})(?![\\p{L}\\p{N}])`, 'gu');
-  return [...new Set(text.match(finder) ?? [])];
+  return [...new Set(text.match(studentNumberFinder(pattern)) ?? [])];
 }
 
 const PROXY_NAMES = new Set(['loopback', 'linklocal', 'uniquelocal']);

@@ -1,4 +1,4 @@
-import type { ImportKind, ImportStatus, ImportSummary } from '@kinpath/contracts';
+import type { ImportKind, ImportLeftOut, ImportStatus, ImportSummary } from '@kinpath/contracts';
 
 /** A row of `imports` joined with the e-mails of the people named in it. */
 export interface ImportRow {
@@ -6,9 +6,10 @@ export interface ImportRow {
   kind: ImportKind;
   status: ImportStatus;
   file_name: string;
-  file_sha256: string;
+  file_digest: string;
   file_bytes: string;
   mapping: Record<string, string> | null;
+  delimiter: string | null;
   commit_requested: boolean;
   partial: boolean;
   rows_total: number | null;
@@ -24,6 +25,9 @@ export interface ImportRow {
   committed_by_email: string | null;
   rolled_back_at: Date | null;
   rolled_back_by_email: string | null;
+  discarded_at: Date | null;
+  discarded_by_email: string | null;
+  left_out: ImportLeftOut | null;
   validation_ms: number | null;
   commit_ms: number | null;
   model_refreshed_at: Date | null;
@@ -31,11 +35,12 @@ export interface ImportRow {
 
 export const IMPORT_SELECT = `
   SELECT i.*, cu.email AS created_by_email, mu.email AS committed_by_email,
-         ru.email AS rolled_back_by_email
+         ru.email AS rolled_back_by_email, du.email AS discarded_by_email
   FROM imports i
   LEFT JOIN users cu ON cu.id = i.created_by
   LEFT JOIN users mu ON mu.id = i.committed_by
-  LEFT JOIN users ru ON ru.id = i.rolled_back_by`;
+  LEFT JOIN users ru ON ru.id = i.rolled_back_by
+  LEFT JOIN users du ON du.id = i.discarded_by`;
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 
@@ -49,7 +54,8 @@ export function toSummary(row: ImportRow): ImportSummary {
     kind: row.kind,
     status: row.status,
     fileName: row.file_name,
-    fileSha256: row.file_sha256,
+    fileDigest: row.file_digest,
+    mapping: row.mapping,
     rowsTotal: row.rows_total,
     rowsAccepted: row.rows_accepted,
     rowsRejected: row.rows_rejected,
@@ -63,6 +69,10 @@ export function toSummary(row: ImportRow): ImportSummary {
     committedBy: row.committed_by_email,
     rolledBackAt: iso(row.rolled_back_at),
     rolledBackBy: row.rolled_back_by_email,
+    discardedAt: iso(row.discarded_at),
+    discardedBy: row.discarded_by_email,
+    leftOut: row.left_out,
+    rejectedRowsAvailable: row.status === 'validated' && (row.rows_rejected ?? 0) > 0,
     durationMs,
     validationMs: row.validation_ms,
     commitMs: row.commit_ms,

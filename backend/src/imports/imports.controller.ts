@@ -22,7 +22,7 @@ import { ApiConsumes, ApiOperation, ApiProduces, ApiTags } from '@nestjs/swagger
 import type { Response } from 'express';
 import { CurrentUser, Roles, SignedIn } from '../auth/decorators';
 import type { User } from '../users/entities/user.entity';
-import { CreateImportDto } from './dto/create-import.dto';
+import { CheckAgainDto, CreateImportDto, PreviewImportDto } from './dto/create-import.dto';
 import { SaveMappingDto } from './dto/save-mapping.dto';
 import { ImportsService, type UploadedFile as ImportFile } from './imports.service';
 import { UploadInterceptor } from './upload.interceptor';
@@ -46,7 +46,14 @@ export class ImportsController {
     @Body() body: CreateImportDto,
     @CurrentUser() user: User,
   ): Promise<ImportAccepted> {
-    return this.imports.upload(file, body.kind, body.mapping, body.commit === 'true', user);
+    return this.imports.upload(
+      file,
+      body.kind,
+      body.mapping,
+      body.commit === 'true',
+      user,
+      body.encoding,
+    );
   }
 
   @Post('preview')
@@ -54,8 +61,11 @@ export class ImportsController {
   @ApiConsumes('multipart/form-data')
   @ApiOperation({ summary: 'Headers, first rows and suggested mappings of a file, for mapping.' })
   @UseInterceptors(UploadInterceptor)
-  preview(@UploadedFile() file: ImportFile | undefined): Promise<ImportPreview> {
-    return this.imports.preview(file);
+  preview(
+    @UploadedFile() file: ImportFile | undefined,
+    @Body() body: PreviewImportDto,
+  ): Promise<ImportPreview> {
+    return this.imports.preview(file, body.encoding);
   }
 
   @Get('mappings')
@@ -96,6 +106,56 @@ export class ImportsController {
       return csv;
     }
     return this.imports.rejections(id);
+  }
+
+  @Get(':id/preview')
+  @ApiOperation({
+    summary: 'Headers and first rows of a validated import’s kept file, to map it again.',
+  })
+  keptPreview(@Param('id', ParseUUIDPipe) id: string): Promise<ImportPreview> {
+    return this.imports.keptPreview(id);
+  }
+
+  @Get(':id/rejected-rows')
+  @ApiProduces('text/csv')
+  @ApiOperation({
+    summary:
+      'The rejected rows in the file’s own columns plus a reason, while the import is validated and not committed.',
+  })
+  async rejectedRows(
+    @Param('id', ParseUUIDPipe) id: string,
+    @Res({ passthrough: true }) res: Response,
+  ): Promise<string> {
+    const csv = await this.imports.rejectedRowsCsv(id);
+    res.setHeader('Content-Type', 'text/csv; charset=utf-8');
+    res.setHeader('Cache-Control', 'no-store');
+    res.setHeader('Content-Disposition', `attachment; filename="import-${id}-rejected-rows.csv"`);
+    return csv;
+  }
+
+  @Post(':id/discard')
+  @HttpCode(200)
+  @ApiOperation({
+    summary: 'Discard a validated import that is not wanted; its files are removed.',
+  })
+  discard(
+    @Param('id', ParseUUIDPipe) id: string,
+    @CurrentUser() user: User,
+  ): Promise<ImportSummary> {
+    return this.imports.discard(id, user);
+  }
+
+  @Post(':id/check-again')
+  @HttpCode(202)
+  @ApiOperation({
+    summary: 'Check the kept file of a validated import again with another mapping.',
+  })
+  checkAgain(
+    @Param('id', ParseUUIDPipe) id: string,
+    @Body() body: CheckAgainDto,
+    @CurrentUser() user: User,
+  ): Promise<ImportAccepted> {
+    return this.imports.checkAgain(id, body.mapping, user);
   }
 
   @Post(':id/commit')

@@ -5,12 +5,15 @@ import {
   Logger,
   NotFoundException,
   OnApplicationBootstrap,
+  UnprocessableEntityException,
 } from '@nestjs/common';
 import { InjectDataSource } from '@nestjs/typeorm';
-import { readdir, rename } from 'node:fs/promises';
+import { createReadStream, existsSync } from 'node:fs';
+import { chmod, readdir, rename } from 'node:fs/promises';
 import { join } from 'node:path';
 import type {
   ImportAccepted,
+  ImportEncoding,
   ImportKind,
   ImportMapping,
   ImportPreview,
@@ -28,7 +31,8 @@ import { InjectConfig } from '../config/config.provider';
 import { loadGradeScale } from '../grade-scale/grade-scale.model';
 import { PseudonymService } from '../pseudonym/pseudonym.service';
 import type { User } from '../users/entities/user.entity';
-import { acceptedPath, removeQuietly, sha256OfFile, uploadPath, uploadsDir } from './import-files';
+import { acceptedPath, removeQuietly, uploadPath, uploadsDir } from './import-files';
+import { decodeToUtf8, ENCODING_NAMES, inspectFile, type FileInspection } from './file-inspection';
 import { COMMIT_QUEUE, ImportJobs, VALIDATE_QUEUE, type ImportJob } from './import-jobs';
 import { IMPORT_SELECT, toSummary, type ImportRow } from './import-row';
 import {
@@ -46,16 +50,33 @@ import {
   readHeaderLine,
   reportCell,
 } from './validation/csv-format';
-import { validateFile, resolveColumns } from './validation/validate-file';
+import { validateFile, resolveColumns, headerLooksLikeData } from './validation/validate-file';
+import { looksLikeStudentNumber, withholdStudentNumbers } from './validation/withhold';
 
 /** Audit actions of the import feature; detail never holds a student number. */
 export const IMPORT_AUDIT = {
   uploaded: 'import.uploaded',
   committed: 'import.committed',
   rolledBack: 'import.rolled_back',
+  discarded: 'import.discarded',
+  checkedAgain: 'import.checked_again',
 } as const;
 
 type Actor = Pick<User, 'id' | 'email'>;
+
+interface EarlierImport {
+  id: string;
+  kind: string;
+  file_name: string;
+  created_at: Date;
+  committed_at?: Date | null;
+}
+
+/** An import in words, by file name and date (ISO), for messages people read. */
+export function describeImport(i: EarlierImport): string {
+  const at = new Date(i.committed_at ?? i.created_at).toISOString().slice(0, 16).replace('T', ' ');
+  return `the ${i.kind} import of '${i.file_name}' ${i.committed_at ? 'committed' : 'uploaded'} ${at} UTC`;
+}
 
 export interface UploadedFile {
   path: string;
@@ -78,6 +99,7 @@ export class ImportsService implements OnApplicationBootstrap {
 
   async onApplicationBootstrap(): Promise<void> {
     await this.recoverInterrupted();
+    await this.protectStoredFileFacts();
     await this.jobs.start({
       validate: (job) => this.runValidation(job),
       commit: (job) => this.runCommit(job),
@@ -86,7 +108,8 @@ export class ImportsService implements OnApplicationBootstrap {
 
   /**
    * A server stopped mid-validation or mid-commit: the commit's transaction never
-   * completed, so the live tables are as before; say so in the history.
+   * completed, so the live tables are as before; say so in the history. Working
+   * files of imports that are no longer open, and any half-received upload, go.
    */
   async recoverInterrupted(): Promise<void> {
     const rows: { id: string; status: string }[] = await this.returning(
@@ -96,18 +119,109 @@ export class ImportsService implements OnApplicationBootstrap {
            ELSE 'The server stopped during validation; upload the file again.' END
        WHERE status IN ('validating', 'committing') RETURNING id, status`,
     );
-    const dir = uploadsDir(this.config.dataDir);
-    for (const name of await readdir(dir)) {
-      if (name.endsWith('.incoming')) await removeQuietly(join(dir, name));
-    }
     for (const row of rows) {
       this.logger.warn(`Import ${row.id} was interrupted by a restart and is marked failed.`);
-      await removeQuietly(uploadPath(this.config.dataDir, row.id));
-      await removeQuietly(acceptedPath(this.config.dataDir, row.id));
+    }
+    await this.removeLeftovers();
+  }
+
+  /** Every file in uploads/ that belongs to no open import (validated or queued) is removed. */
+  async removeLeftovers(): Promise<void> {
+    const dir = uploadsDir(this.config.dataDir);
+    const open: { id: string }[] = await this.dataSource.query(
+      `SELECT id FROM imports WHERE status IN ('queued', 'validated')`,
+    );
+    const keep = new Set(open.map((r) => r.id));
+    for (const name of await readdir(dir)) {
+      const id = /^([0-9a-f-]{36})\.(upload|accepted)\.csv$/.exec(name)?.[1];
+      if (id === undefined || !keep.has(id)) await removeQuietly(join(dir, name));
     }
   }
 
+  /**
+   * Rows written before digests were keyed get the keyed digest of their SHA-256,
+   * and stored file names lose anything shaped like a student number.
+   */
+  async protectStoredFileFacts(): Promise<void> {
+    const plain: { id: string; file_digest: string }[] = await this.dataSource.query(
+      `SELECT id, file_digest FROM imports WHERE NOT digest_keyed`,
+    );
+    for (const row of plain) {
+      await this.dataSource.query(
+        `UPDATE imports SET file_digest = $2, digest_keyed = true WHERE id = $1`,
+        [row.id, this.pseudonyms.fileDigest(row.file_digest)],
+      );
+    }
+    const names: { id: string; file_name: string }[] = await this.dataSource.query(
+      `SELECT id, file_name FROM imports WHERE file_name ~ '[0-9]{4}'`,
+    );
+    for (const row of names) {
+      const safe = this.safeFileName(row.file_name);
+      if (safe === row.file_name) continue;
+      await this.dataSource.query(`UPDATE imports SET file_name = $2 WHERE id = $1`, [
+        row.id,
+        safe,
+      ]);
+      await this.dataSource.query(
+        `UPDATE audit_events SET detail = jsonb_set(detail, '{fileName}', to_jsonb($2::text))
+         WHERE target = $1 AND action = 'import.uploaded' AND detail ? 'fileName'`,
+        [row.id, safe],
+      );
+    }
+  }
+
+  /** A file name as kept: anything matching the student-number pattern is withheld. */
+  safeFileName(name: string): string {
+    return withholdStudentNumbers(name, this.config.studentNumberPattern).slice(0, 255);
+  }
+
   // ---- upload and preview -------------------------------------------------
+
+  /**
+   * Refuses what cannot be a CSV file of term data before anything is stored: an
+   * empty or binary file, or one in another encoding that was not confirmed.
+   */
+  private async inspect(
+    file: UploadedFile,
+    confirmed: string | undefined,
+  ): Promise<FileInspection & { readAs: ImportEncoding }> {
+    const found = await inspectFile(file.path);
+    if (found.bytes === 0 || found.empty) {
+      throw new BadRequestException(
+        'The file is empty: it has no header row and no rows. Export the file again from the student information system.',
+      );
+    }
+    if (found.binary) {
+      throw new BadRequestException(
+        `This is not a CSV file: it looks like ${found.binary}. Choose a CSV file (comma or semicolon separated text).`,
+      );
+    }
+    if (found.encoding === 'utf-8') return { ...found, readAs: 'utf-8' };
+    if (confirmed === undefined || confirmed === '' || confirmed === 'utf-8') {
+      throw new UnprocessableEntityException({
+        statusCode: 422,
+        message: `The file is not UTF-8; it looks like ${ENCODING_NAMES[found.encoding]}. Confirm the encoding to read it in, or save the file as UTF-8.`,
+        details: { detectedEncoding: found.encoding, encodingName: ENCODING_NAMES[found.encoding] },
+      });
+    }
+    return { ...found, readAs: confirmed as ImportEncoding };
+  }
+
+  /** Puts the upload where validation reads it, as UTF-8, readable by the server only. */
+  private async placeUpload(file: UploadedFile, target: string, encoding: ImportEncoding) {
+    if (encoding === 'utf-8') {
+      await rename(file.path, target);
+      await chmod(target, 0o600);
+      return;
+    }
+    const { undefinedAtLine } = await decodeToUtf8(file.path, target, encoding);
+    if (undefinedAtLine !== null) {
+      await removeQuietly(target);
+      throw new BadRequestException(
+        `Line ${undefinedAtLine} holds a byte that ${ENCODING_NAMES[encoding]} does not define, so the file is not in that encoding. Save the file as UTF-8, or confirm another encoding.`,
+      );
+    }
+  }
 
   async upload(
     file: UploadedFile | undefined,
@@ -115,69 +229,75 @@ export class ImportsService implements OnApplicationBootstrap {
     mappingJson: string | undefined,
     commit: boolean,
     actor: Actor,
+    encoding?: string,
   ): Promise<ImportAccepted> {
     if (!file) throw new BadRequestException('Send the CSV file in the multipart field `file`.');
     try {
       const mapping = this.parseMapping(kind, mappingJson);
-      const sha256 = await sha256OfFile(file.path);
-      const earlier = await this.liveImportOf(sha256);
+      const found = await this.inspect(file, encoding);
+      const digest = this.pseudonyms.fileDigest(found.sha256);
+      const earlier = await this.committedImportOf(digest);
       if (earlier) throw this.duplicate(earlier);
-      let id: string;
+      const fileName = this.safeFileName(file.originalname);
+      const rows: { id: string }[] = await this.dataSource.query(
+        `INSERT INTO imports (kind, status, file_name, file_digest, digest_keyed, file_bytes,
+           mapping, commit_requested, created_by)
+         VALUES ($1, 'queued', $2, $3, true, $4, $5, $6, $7) RETURNING id`,
+        [
+          kind,
+          fileName,
+          digest,
+          file.size,
+          mapping ? JSON.stringify(mapping) : null,
+          commit,
+          actor.id,
+        ],
+      );
+      const id = rows[0].id;
       try {
-        const rows: { id: string }[] = await this.dataSource.query(
-          `INSERT INTO imports (kind, status, file_name, file_sha256, file_bytes, mapping,
-             commit_requested, created_by)
-           VALUES ($1, 'queued', $2, $3, $4, $5, $6, $7) RETURNING id`,
-          [
-            kind,
-            file.originalname.slice(0, 255),
-            sha256,
-            file.size,
-            mapping ? JSON.stringify(mapping) : null,
-            commit,
-            actor.id,
-          ],
-        );
-        id = rows[0].id;
+        await this.placeUpload(file, uploadPath(this.config.dataDir, id), found.readAs);
       } catch (error) {
-        const race =
-          (error as { code?: string }).code === '23505' && (await this.liveImportOf(sha256));
-        if (race) throw this.duplicate(race);
+        await this.fail(id, (error as Error).message);
         throw error;
       }
-      await rename(file.path, uploadPath(this.config.dataDir, id));
       await this.record(actor, IMPORT_AUDIT.uploaded, id, {
         kind,
-        fileName: file.originalname,
+        fileName,
         bytes: file.size,
-        sha256,
+        encoding: found.readAs,
         commitRequested: commit,
       });
-      try {
-        await this.jobs.send(VALIDATE_QUEUE, { importId: id });
-      } catch (error) {
-        await this.fail(id, `The validation could not be queued: ${(error as Error).message}`);
-        throw error;
-      }
+      await this.queueValidation(id);
       return { id, status: 'queued' };
     } finally {
       await removeQuietly(file.path);
     }
   }
 
-  private duplicate(earlier: { id: string; kind: string; created_at: Date; status: string }) {
-    return new ConflictException(
-      `This file was imported already: import ${earlier.id} (${earlier.kind}, uploaded ${new Date(earlier.created_at).toISOString()}, ${earlier.status}). Roll that import back first to import the same file again.`,
-    );
+  private async queueValidation(id: string): Promise<void> {
+    try {
+      await this.jobs.send(VALIDATE_QUEUE, { importId: id });
+    } catch (error) {
+      await this.fail(id, `The validation could not be queued: ${(error as Error).message}`);
+      throw error;
+    }
   }
 
-  private async liveImportOf(sha256: string) {
-    const rows: { id: string; kind: string; created_at: Date; status: string }[] =
-      await this.dataSource.query(
-        `SELECT id, kind, created_at, status FROM imports
-         WHERE file_sha256 = $1 AND status NOT IN ('failed', 'rolled_back') LIMIT 1`,
-        [sha256],
-      );
+  private duplicate(earlier: EarlierImport) {
+    return new ConflictException({
+      message: `This file was committed already: ${describeImport(earlier)}. Roll that import back first to import the same file again.`,
+      details: { earlierImportId: earlier.id },
+    });
+  }
+
+  /** The committed import of the same file, if any: only a committed file blocks it again. */
+  private async committedImportOf(digest: string, except?: string): Promise<EarlierImport | null> {
+    const rows: EarlierImport[] = await this.dataSource.query(
+      `SELECT id, kind, file_name, created_at, committed_at FROM imports
+       WHERE file_digest = $1 AND status IN ('committing', 'committed') AND id <> $2::uuid
+       LIMIT 1`,
+      [digest, except ?? '00000000-0000-0000-0000-000000000000'],
+    );
     return rows[0] ?? null;
   }
 
@@ -202,6 +322,12 @@ export class ImportsService implements OnApplicationBootstrap {
     const mapping: ImportMapping = {};
     for (const [header, field] of Object.entries(value as Record<string, unknown>)) {
       if (field === null || field === '') continue;
+      // A mapping is stored: a "header" that is a student number means a file without one.
+      if (looksLikeStudentNumber(header, this.config.studentNumberPattern)) {
+        throw new BadRequestException(
+          'The mapping names a column that looks like a student number: the first line of the file holds data, not column names. Add a header row naming the columns.',
+        );
+      }
       if (typeof field !== 'string' || !fields.includes(field)) {
         throw new BadRequestException(
           `mapping: '${String(field)}' (for column '${header}') is not a field of ${kind}; the fields are ${fields.join(', ')}.`,
@@ -212,45 +338,75 @@ export class ImportsService implements OnApplicationBootstrap {
     return mapping;
   }
 
-  async preview(file: UploadedFile | undefined): Promise<ImportPreview> {
+  async preview(file: UploadedFile | undefined, encoding?: string): Promise<ImportPreview> {
     if (!file) throw new BadRequestException('Send the CSV file in the multipart field `file`.');
+    const decoded = `${file.path}.utf8`;
     try {
-      const delimiter = detectDelimiter(await readHeaderLine(file.path));
-      const parser = csvParser(delimiter, { toLine: 21 });
-      const { createReadStream } = await import('node:fs');
-      const source = createReadStream(file.path, { end: 1 << 20 });
-      source.pipe(parser);
-      const records: string[][] = [];
-      try {
-        for await (const item of parser as AsyncIterable<{ record: string[] }>) {
-          records.push(item.record);
-          if (records.length >= 21) break;
-        }
-      } catch {
-        // A first megabyte cut inside a quoted field: show what was read.
-      } finally {
-        source.destroy();
+      const found = await this.inspect(file, encoding);
+      let path = file.path;
+      if (found.readAs !== 'utf-8') {
+        await this.placeUpload({ ...file, path: file.path }, decoded, found.readAs);
+        path = decoded;
       }
-      const headers = (records.shift() ?? []).map((h) => h.trim());
-      const suggestedMappings = {} as ImportPreview['suggestedMappings'];
-      const missingFields = {} as ImportPreview['missingFields'];
-      for (const kind of IMPORT_KINDS) {
-        const mapping: ImportMapping = {};
-        for (const header of headers) {
-          const key = headerKey(header);
-          const field = IMPORT_FIELDS[kind].find((f) => f.name === key || SYNONYMS[key] === f.name);
-          if (field && !Object.values(mapping).includes(field.name)) mapping[header] = field.name;
-        }
-        suggestedMappings[kind] = mapping;
-        const resolved = resolveColumns(kind, headers, mapping);
-        missingFields[kind] = IMPORT_FIELDS[kind]
-          .filter((f) => f.required && !resolved.index.has(f.name))
-          .map((f) => f.name);
-      }
-      return { delimiter, headers, rows: records, suggestedMappings, missingFields };
+      return { ...(await this.previewOf(path)), encoding: found.readAs };
     } finally {
       await removeQuietly(file.path);
+      await removeQuietly(decoded);
     }
+  }
+
+  /** Headers, first rows and suggestions of a UTF-8 file on disk. */
+  private async previewOf(path: string): Promise<Omit<ImportPreview, 'encoding'>> {
+    const delimiter = detectDelimiter(await readHeaderLine(path));
+    const parser = csvParser(delimiter, { toLine: 21 });
+    const source = createReadStream(path, { end: 1 << 20 });
+    source.pipe(parser);
+    const records: string[][] = [];
+    try {
+      for await (const item of parser as AsyncIterable<{ record: string[] }>) {
+        records.push(item.record);
+        if (records.length >= 21) break;
+      }
+    } catch {
+      // A first megabyte cut inside a quoted field: show what was read.
+    } finally {
+      source.destroy();
+    }
+    const headers = (records.shift() ?? []).map((h) => h.trim());
+    const suggestedMappings = {} as ImportPreview['suggestedMappings'];
+    const missingFields = {} as ImportPreview['missingFields'];
+    for (const kind of IMPORT_KINDS) {
+      suggestedMappings[kind] = suggestMapping(kind, headers);
+      const resolved = resolveColumns(kind, headers, suggestedMappings[kind]);
+      missingFields[kind] = IMPORT_FIELDS[kind]
+        .filter((f) => f.required && !resolved.index.has(f.name))
+        .map((f) => f.name);
+    }
+    return {
+      delimiter,
+      headers,
+      rows: records,
+      suggestedMappings,
+      missingFields,
+      likelyKind: likelyKind(headers),
+    };
+  }
+
+  /** The preview of a validated import's kept upload, to choose another mapping. */
+  async keptPreview(id: string): Promise<ImportPreview> {
+    const { path } = await this.keptUpload(
+      id,
+      'The file of this import is no longer kept: it is kept only while the import is validated and not yet committed or discarded. Upload the file again.',
+    );
+    return { ...(await this.previewOf(path)), encoding: 'utf-8' };
+  }
+
+  /** The import and its kept upload, or 409 with `gone` when the file is no longer kept. */
+  private async keptUpload(id: string, gone: string): Promise<{ row: ImportRow; path: string }> {
+    const row = await this.row(id);
+    const path = uploadPath(this.config.dataDir, id);
+    if (row.status !== 'validated' || !existsSync(path)) throw new ConflictException(gone);
+    return { row, path };
   }
 
   // ---- reading ------------------------------------------------------------
@@ -303,7 +459,11 @@ export class ImportsService implements OnApplicationBootstrap {
 
   // ---- validation ---------------------------------------------------------
 
-  /** The validation job: reads the upload once, then deletes it (it holds raw student numbers). */
+  /**
+   * The validation job. The upload (it holds raw student numbers) stays on disk
+   * only while the import is open, for the rejected rows and a check with another
+   * mapping; it goes when the import is committed, discarded or fails.
+   */
   async runValidation(job: ImportJob): Promise<void> {
     const id = job.importId;
     const claimed: { kind: ImportKind }[] = await this.returning(
@@ -314,15 +474,24 @@ export class ImportsService implements OnApplicationBootstrap {
     );
     if (!claimed[0]) return;
     const started = Date.now();
+    let open = false;
     try {
       const row = await this.row(id);
       const outcome = await this.validate(id, row.kind, row.mapping, null);
       const ms = Date.now() - started;
-      if (outcome.fatal) {
+      const fatal =
+        outcome.fatal === null
+          ? outcome.rowsTotal === 0
+            ? 'The file has a header row but no rows under it: there is nothing to import.'
+            : null
+          : `The file cannot be read as ${row.kind}: ${outcome.fatal}.${this.kindHint(row.kind, outcome.headers)}`;
+      if (fatal) {
+        // Files first, so that whoever sees the import failed finds nothing left on disk.
+        await this.removeWorkingFiles(id);
         await this.dataSource.query(
           `UPDATE imports SET status = 'failed', progress_phase = NULL, validation_ms = $2,
              validated_at = now(), message = $3 WHERE id = $1`,
-          [id, ms, `The file cannot be read as ${row.kind}: ${outcome.fatal}.`],
+          [id, ms, fatal],
         );
         return;
       }
@@ -332,22 +501,39 @@ export class ImportsService implements OnApplicationBootstrap {
         ? null
         : outcome.rowsRejected > 0
           ? `${outcome.rowsRejected} row${outcome.rowsRejected === 1 ? ' was' : 's were'} rejected, so the file was not committed. Fix the file, or commit the accepted rows explicitly.`
-          : outcome.rowsAccepted === 0
-            ? 'The file has no rows to commit.'
-            : null;
+          : null;
       await this.dataSource.query(
         `UPDATE imports SET status = $2, progress_phase = NULL, validation_ms = $3,
            validated_at = now(), message = $4 WHERE id = $1`,
         [id, commitNow ? 'queued' : 'validated', ms, message],
       );
+      open = !commitNow;
       if (commitNow) await this.runCommit({ importId: id });
     } catch (error) {
-      this.logger.error(`Validation of import ${id} failed: ${(error as Error).message}`);
-      await this.fail(id, `Validation failed: ${(error as Error).message}`);
-      await removeQuietly(acceptedPath(this.config.dataDir, id));
+      const reason = withholdStudentNumbers(
+        (error as Error).message,
+        this.config.studentNumberPattern,
+      );
+      this.logger.error(`Validation of import ${id} failed: ${reason}`);
+      await this.removeWorkingFiles(id);
+      await this.fail(id, `Validation failed: ${reason}`);
     } finally {
-      await removeQuietly(uploadPath(this.config.dataDir, id));
+      if (!open) await this.removeWorkingFiles(id);
     }
+  }
+
+  /** A file whose headers fit another kind says so: the kind chosen is the likely mistake. */
+  private kindHint(kind: ImportKind, headers: string[]): string {
+    if (headerLooksLikeData(headers, this.config.studentNumberPattern)) return '';
+    const likely = likelyKind(headers);
+    return likely && likely !== kind
+      ? ` Its columns look like a ${likely} file: upload it again as ${likely}.`
+      : '';
+  }
+
+  private async removeWorkingFiles(id: string): Promise<void> {
+    await removeQuietly(uploadPath(this.config.dataDir, id));
+    await removeQuietly(acceptedPath(this.config.dataDir, id));
   }
 
   /** Validates the upload of `id`; stores counts and rejections through `db` (or the pool). */
@@ -370,6 +556,7 @@ export class ImportsService implements OnApplicationBootstrap {
         knownCourses: new Set(courses.map((c) => c.course_code)),
         scale,
         pseudonymFor: (studentId) => this.pseudonyms.pseudonymFor(studentId),
+        studentNumber: this.config.studentNumberPattern,
       },
       onProgress: async (done) => {
         await query(`UPDATE imports SET progress_done = $2 WHERE id = $1`, [id, done]);
@@ -391,7 +578,8 @@ export class ImportsService implements OnApplicationBootstrap {
     }
     await query(
       `UPDATE imports SET rows_total = $2, rows_accepted = $3, rows_rejected = $4,
-         rejections_truncated = $5, delimiter = $6, progress_done = $2, progress_total = $2
+         rejections_truncated = $5, delimiter = $6, progress_done = $2, progress_total = $2,
+         left_out = $7
        WHERE id = $1`,
       [
         id,
@@ -400,9 +588,24 @@ export class ImportsService implements OnApplicationBootstrap {
         result.rowsRejected,
         result.rejectionsTruncated,
         result.delimiter,
+        result.fatal === null ? JSON.stringify(this.leftOut(kind, result.headers, mapping)) : null,
       ],
     );
     return result;
+  }
+
+  /** File columns no field took, and optional fields no column gave (header names withheld as needed). */
+  private leftOut(kind: ImportKind, headers: string[], mapping: ImportMapping | null) {
+    const resolved = resolveColumns(kind, headers, mapping, this.config.studentNumberPattern);
+    const used = new Set(resolved.index.values());
+    return {
+      columns: headers
+        .filter((h, i) => !used.has(i) && h !== '')
+        .map((h) => withholdStudentNumbers(h, this.config.studentNumberPattern)),
+      fields: IMPORT_FIELDS[kind]
+        .filter((f) => !f.required && !resolved.index.has(f.name))
+        .map((f) => f.name),
+    };
   }
 
   // ---- commit -------------------------------------------------------------
@@ -418,6 +621,8 @@ export class ImportsService implements OnApplicationBootstrap {
     if (!row.rows_accepted) {
       throw new ConflictException(`Import ${id} has no accepted rows to commit.`);
     }
+    const earlier = await this.committedImportOf(row.file_digest, id);
+    if (earlier) throw this.duplicate(earlier);
     const claimed: unknown[] = await this.returning(
       `UPDATE imports SET status = 'queued', commit_requested = true, message = NULL
        WHERE id = $1 AND status = 'validated' RETURNING id`,
@@ -431,14 +636,29 @@ export class ImportsService implements OnApplicationBootstrap {
   /** The commit job: one transaction; on any failure nothing of the import is written. */
   async runCommit(job: ImportJob): Promise<void> {
     const id = job.importId;
-    const claimed: { kind: ImportKind; rows_accepted: number; created_by: string | null }[] =
-      await this.returning(
+    let claimed: { kind: ImportKind; rows_accepted: number; created_by: string | null }[];
+    try {
+      claimed = await this.returning(
         `UPDATE imports SET status = 'committing', progress_phase = 'committing',
            progress_done = 0, progress_total = rows_accepted
          WHERE id = $1 AND status = 'queued' AND validated_at IS NOT NULL
          RETURNING kind, rows_accepted, created_by`,
         [id],
       );
+    } catch (error) {
+      // Two imports of one file committed at once: the second finds the first committed.
+      if ((error as { code?: string }).code !== '23505') throw error;
+      const row = await this.row(id);
+      const earlier = await this.committedImportOf(row.file_digest, id);
+      await this.fail(
+        id,
+        earlier
+          ? (this.duplicate(earlier).getResponse() as { message: string }).message
+          : 'The same file is being committed already.',
+      );
+      await this.removeWorkingFiles(id);
+      return;
+    }
     if (!claimed[0]) return;
     const actorId = job.actorId ?? claimed[0].created_by;
     const runner = this.dataSource.createQueryRunner();
@@ -455,9 +675,10 @@ export class ImportsService implements OnApplicationBootstrap {
           .query(`UPDATE imports SET progress_done = $2 WHERE id = $1`, [id, rows])
           .catch(() => undefined);
       });
+      // The rows are in the transaction: the working files go before anyone sees it committed.
+      await this.removeWorkingFiles(id);
       await runner.commitTransaction();
       this.logger.log(`Import ${id} committed in ${Date.now() - started} ms.`);
-      await removeQuietly(acceptedPath(this.config.dataDir, id));
       this.events.publish({
         importId: id,
         kind: claimed[0].kind,
@@ -468,9 +689,11 @@ export class ImportsService implements OnApplicationBootstrap {
       if (runner.isTransactionActive) await runner.rollbackTransaction().catch(() => undefined);
       const reason = this.describeWriteError(error);
       this.logger.error(`Commit of import ${id} failed: ${reason}`);
+      await this.removeWorkingFiles(id);
       await this.fail(id, `The commit failed and nothing was written: ${reason}`);
     } finally {
       await runner.release();
+      await this.removeWorkingFiles(id);
     }
   }
 
@@ -516,6 +739,116 @@ export class ImportsService implements OnApplicationBootstrap {
     return rows[0] ?? null;
   }
 
+  // ---- discard and check again --------------------------------------------
+
+  /** A validated import that is not wanted: kept in the history as discarded, its files removed. */
+  async discard(id: string, actor: Actor): Promise<ImportSummary> {
+    const claimed: unknown[] = await this.returning(
+      `UPDATE imports SET status = 'discarded', discarded_at = now(), discarded_by = $2,
+         message = NULL
+       WHERE id = $1 AND status = 'validated' RETURNING id`,
+      [id, actor.id],
+    );
+    if (!claimed.length) {
+      const row = await this.row(id);
+      throw new ConflictException(
+        `This import is ${row.status.replace('_', ' ')}; only a validated import that is not committed can be discarded.`,
+      );
+    }
+    await this.removeWorkingFiles(id);
+    await this.record(actor, IMPORT_AUDIT.discarded, id, {});
+    return this.get(id);
+  }
+
+  /**
+   * Checks the kept upload of a validated import again under another mapping: a
+   * new import takes the file, the first is discarded.
+   */
+  async checkAgain(
+    id: string,
+    mappingJson: string | undefined,
+    actor: Actor,
+  ): Promise<ImportAccepted> {
+    const row = await this.row(id);
+    const mapping = this.parseMapping(row.kind, mappingJson);
+    const upload = uploadPath(this.config.dataDir, id);
+    if (row.status !== 'validated' || !existsSync(upload)) {
+      throw new ConflictException(
+        `This import is ${row.status.replace('_', ' ')}; only a validated import that is not committed can be checked again. Upload the file again instead.`,
+      );
+    }
+    const discarded: unknown[] = await this.returning(
+      `UPDATE imports SET status = 'discarded', discarded_at = now(), discarded_by = $2,
+         message = 'Checked again with another mapping.'
+       WHERE id = $1 AND status = 'validated' RETURNING id`,
+      [id, actor.id],
+    );
+    if (!discarded.length) throw new ConflictException('This import is being changed already.');
+    const rows: { id: string }[] = await this.dataSource.query(
+      `INSERT INTO imports (kind, status, file_name, file_digest, digest_keyed, file_bytes,
+         mapping, commit_requested, created_by)
+       VALUES ($1, 'queued', $2, $3, true, $4, $5, false, $6) RETURNING id`,
+      [
+        row.kind,
+        row.file_name,
+        row.file_digest,
+        row.file_bytes,
+        mapping ? JSON.stringify(mapping) : null,
+        actor.id,
+      ],
+    );
+    const next = rows[0].id;
+    await rename(upload, uploadPath(this.config.dataDir, next));
+    await this.removeWorkingFiles(id);
+    await this.record(actor, IMPORT_AUDIT.checkedAgain, next, { kind: row.kind, previous: id });
+    await this.queueValidation(next);
+    return { id: next, status: 'queued' };
+  }
+
+  /**
+   * The rejected rows in the file's own columns plus `reason`, read from the kept
+   * upload (never stored): ready to fix and import again.
+   */
+  async rejectedRowsCsv(id: string): Promise<string> {
+    const { row, path } = await this.keptUpload(
+      id,
+      'The rejected rows can be downloaded only while the import is validated and not yet committed or discarded: the uploaded file is kept until then.',
+    );
+    const reasons = new Map<number, string[]>();
+    for (const r of await this.rejections(id)) {
+      const list = reasons.get(r.line) ?? [];
+      list.push(r.column ? `${r.column}: ${r.reason}` : r.reason);
+      reasons.set(r.line, list);
+    }
+    const delimiter = (row.delimiter ?? ',') as ',' | ';';
+    const parser = csvParser(delimiter);
+    const source = createReadStream(path);
+    source.pipe(parser);
+    const cell = (v: string) =>
+      /["\r\n\t]/.test(v) || v.includes(delimiter) || v.trim() !== v
+        ? `"${v.replace(/"/g, '""')}"`
+        : v;
+    const lines: string[] = [];
+    let first = true;
+    try {
+      for await (const item of parser as AsyncIterable<{
+        record: string[];
+        info: { lines: number };
+      }>) {
+        if (first) {
+          lines.push([...item.record, 'reason'].map(cell).join(delimiter));
+          first = false;
+          continue;
+        }
+        const why = reasons.get(item.info.lines);
+        if (why) lines.push([...item.record, why.join('; ')].map(cell).join(delimiter));
+      }
+    } finally {
+      source.destroy();
+    }
+    return '\ufeff' + lines.join('\r\n') + '\r\n';
+  }
+
   // ---- rollback -----------------------------------------------------------
 
   async rollback(id: string, actor: Actor): Promise<ImportSummary> {
@@ -533,19 +866,22 @@ export class ImportsService implements OnApplicationBootstrap {
       kind = rows[0].kind;
       if (rows[0].status !== 'committed') {
         throw new ConflictException(
-          `Import ${id} is ${rows[0].status.replace('_', ' ')}; only a committed import can be rolled back.`,
+          `This import is ${rows[0].status.replace('_', ' ')}; only a committed import can be rolled back.`,
         );
       }
       const blockers = await rollbackBlockers(client, id);
       if (blockers.length) {
-        const names = blockers
-          .map((b) => `${b.importId} (${b.kind}, ${b.createdAt.toISOString()})`)
-          .join(', ');
         throw new ConflictException(
-          `Import ${id} cannot be rolled back: a later import replaced rows it wrote (${names}). Roll back the later import${blockers.length > 1 ? 's' : ''} first.`,
+          `This import cannot be rolled back yet: a later import replaced rows it wrote. Roll back ${blockers.map(describeImport).join(', then ')} first.`,
         );
       }
-      const counts = await rollbackRows(client, id, kind);
+      const counts = await rollbackRows(client, id, kind, async (referrers) => {
+        throw new ConflictException(
+          referrers.length
+            ? `This import cannot be rolled back yet: later imports added rows that refer to rows it added. Roll back ${referrers.map(describeImport).join(', then ')} first.`
+            : 'This import cannot be rolled back: other term data refers to rows it added.',
+        );
+      });
       if (kind === 'records') await rederiveGradePoints(client);
       await client.query(
         `UPDATE imports SET status = 'rolled_back', rolled_back_at = now(), rolled_back_by = $2
@@ -566,7 +902,7 @@ export class ImportsService implements OnApplicationBootstrap {
       if (runner.isTransactionActive) await runner.rollbackTransaction().catch(() => undefined);
       if ((error as { code?: string }).code === '23503') {
         throw new ConflictException(
-          `Import ${id} cannot be rolled back: rows added by later imports still refer to rows it added (${this.describeWriteError(error)}). Roll back those imports first.`,
+          'This import cannot be rolled back: other term data refers to rows it added.',
         );
       }
       throw error;
@@ -647,13 +983,18 @@ export class ImportsService implements OnApplicationBootstrap {
     if (!runner) throw new Error('importInTransaction needs a transaction.');
     const client = (await runner.connect()) as ClientBase;
     const { copyFile } = await import('node:fs/promises');
-    const sha256 = await sha256OfFile(path);
-    const { size } = await (await import('node:fs/promises')).stat(path);
+    const found = await inspectFile(path);
     const { rows } = await client.query<{ id: string }>(
-      `INSERT INTO imports (kind, status, file_name, file_sha256, file_bytes, commit_requested,
-         created_by)
-       VALUES ($1, 'validating', $2, $3, $4, true, $5) RETURNING id`,
-      [kind, path.split('/').pop(), sha256, size, actor.id],
+      `INSERT INTO imports (kind, status, file_name, file_digest, digest_keyed, file_bytes,
+         commit_requested, created_by)
+       VALUES ($1, 'validating', $2, $3, true, $4, true, $5) RETURNING id`,
+      [
+        kind,
+        this.safeFileName(path.split('/').pop() ?? kind),
+        this.pseudonyms.fileDigest(found.sha256),
+        found.bytes,
+        actor.id,
+      ],
     );
     const id = rows[0].id;
     await copyFile(path, uploadPath(this.config.dataDir, id));
@@ -672,7 +1013,7 @@ export class ImportsService implements OnApplicationBootstrap {
          WHERE id = $1`,
         [id, Date.now() - started],
       );
-      await this.record(actor, IMPORT_AUDIT.uploaded, id, { kind, sha256, demo: true }, manager);
+      await this.record(actor, IMPORT_AUDIT.uploaded, id, { kind, demo: true }, manager);
       const commitStarted = Date.now();
       await this.commitInTransaction(runner, id, kind, actor.id, commitStarted);
       return { id, rows: result.rowsAccepted };
@@ -730,6 +1071,39 @@ export class ImportsService implements OnApplicationBootstrap {
   }
 }
 
+/** The kind's fields matched to headers by name or a common spelling; each field once. */
+export function suggestMapping(kind: ImportKind, headers: string[]): ImportMapping {
+  const mapping: ImportMapping = {};
+  for (const header of headers) {
+    const key = headerKey(header);
+    // "Rating (1-5)" reads as rating: a trailing range or unit does not hide the name.
+    const bare = key.replace(/(_\d+)+$/, '');
+    const field = IMPORT_FIELDS[kind].find(
+      (f) =>
+        f.name === key || SYNONYMS[key] === f.name || f.name === bare || SYNONYMS[bare] === f.name,
+    );
+    if (field && !Object.values(mapping).includes(field.name)) mapping[header] = field.name;
+  }
+  return mapping;
+}
+
+/**
+ * The one kind whose required fields the headers all give, choosing the kind
+ * with the most matched columns when several do (a records file also gives
+ * every column of students).
+ */
+export function likelyKind(headers: string[]): ImportKind | null {
+  let best: { kind: ImportKind; matched: number } | null = null;
+  for (const kind of IMPORT_KINDS) {
+    const mapping = suggestMapping(kind, headers);
+    const given = new Set(Object.values(mapping));
+    if (!IMPORT_FIELDS[kind].every((f) => !f.required || given.has(f.name))) continue;
+    const required = IMPORT_FIELDS[kind].filter((f) => f.required).length;
+    if (!best || required > best.matched) best = { kind, matched: required };
+  }
+  return best?.kind ?? null;
+}
+
 /** Common header spellings of registrar exports, suggested on the mapping screen. */
 const SYNONYMS: Record<string, string> = {
   course: 'course_code',
@@ -756,5 +1130,9 @@ const SYNONYMS: Record<string, string> = {
   final_grade: 'grade',
   mark: 'grade',
   evaluation: 'satisfaction',
+  rating: 'satisfaction',
+  course_rating: 'satisfaction',
   attempted_credits: 'credits_attempted',
+  credits: 'credits_attempted',
+  credit_hours: 'credits_attempted',
 };

@@ -61,31 +61,6 @@ function selectFromStage(kind: ImportKind): string {
   }
 }
 
-/**
- * From this many rows on, the table's foreign keys are dropped for the write and
- * added back (which checks every row in one join) inside the same transaction:
- * far faster than one trigger call per row, at the price of holding the table
- * exclusively for the commit. A failed check rolls the whole import back.
- */
-export const BULK_ROWS = 100_000;
-
-async function suspendForeignKeys(client: ClientBase, table: string) {
-  await client.query(`LOCK TABLE ${table} IN ACCESS EXCLUSIVE MODE`);
-  const { rows } = await client.query<{ name: string; definition: string }>(
-    `SELECT conname AS name, pg_get_constraintdef(oid) AS definition FROM pg_constraint
-     WHERE conrelid = $1::regclass AND contype = 'f' ORDER BY conname`,
-    [table],
-  );
-  for (const fk of rows) await client.query(`ALTER TABLE ${table} DROP CONSTRAINT ${fk.name}`);
-  return {
-    async restore() {
-      for (const fk of rows) {
-        await client.query(`ALTER TABLE ${table} ADD CONSTRAINT ${fk.name} ${fk.definition}`);
-      }
-    },
-  };
-}
-
 export interface CommitCounts {
   inserted: number;
   replaced: number;
@@ -155,8 +130,10 @@ export async function commitRows(
   );
   step('old values');
   const columns = [...spec.key, ...spec.values, 'import_id'];
-  const bulk = copied >= BULK_ROWS ? await suspendForeignKeys(client, spec.table) : null;
-  step('suspend checks');
+  // The foreign keys stay in place and check row by row: dropping and re-adding them
+  // would hold this table and the tables it refers to (courses, students) exclusively
+  // until the commit ends, and every page reads those. Rows and row locks only, so
+  // readers go on seeing the term data as it was until the commit.
   const written = await client.query(
     `INSERT INTO ${spec.table} (${columns.join(', ')})
      ${selectFromStage(kind)}
@@ -166,45 +143,87 @@ export async function commitRows(
     [importId],
   );
   step('upsert');
-  if (bulk) {
-    await bulk.restore();
-    step('re-check references');
-  }
   await client.query(`DROP TABLE pg_temp.import_stage`);
   const replaced = kept.rowCount ?? 0;
   return { inserted: (written.rowCount ?? 0) - replaced, replaced, studentsCreated };
 }
 
 export interface RollbackBlocker {
-  importId: string;
+  id: string;
   kind: string;
-  createdAt: Date;
+  file_name: string;
+  created_at: Date;
+  committed_at: Date | null;
 }
 
-/** Later imports, still committed, that replaced rows this import wrote. */
+/** Later imports, still committed, that replaced rows this import wrote; latest first. */
 export async function rollbackBlockers(
   client: ClientBase,
   importId: string,
 ): Promise<RollbackBlocker[]> {
-  const { rows } = await client.query<{ id: string; kind: string; created_at: Date }>(
-    `SELECT i.id, i.kind, i.created_at FROM imports i
+  const { rows } = await client.query<RollbackBlocker>(
+    `SELECT i.id, i.kind, i.file_name, i.created_at, i.committed_at FROM imports i
      WHERE i.status = 'committed' AND i.id <> $1::uuid
        AND EXISTS (SELECT 1 FROM import_changes c WHERE c.import_id = i.id AND c.old_import_id = $1::uuid)
-     ORDER BY i.created_at`,
+     ORDER BY i.committed_at DESC NULLS LAST`,
     [importId],
   );
-  return rows.map((r) => ({ importId: r.id, kind: r.kind, createdAt: r.created_at }));
+  return rows;
 }
 
+/** Which tables refer to each table's key, and by which column. */
+const REFERRERS: Partial<
+  Record<TableSpec['table'], { table: string; column: string; key: string }[]>
+> = {
+  courses: [
+    { table: 'offerings', column: 'course_code', key: 'course_code' },
+    { table: 'records', column: 'course_code', key: 'course_code' },
+  ],
+  students: [{ table: 'records', column: 'student_pseudonym', key: 'pseudonym' }],
+};
+
 /**
- * Undoes one import inside the caller's transaction: rows it replaced get their
- * old values back (updated in place, so references to them hold), then the rows
- * that still carry its id, the ones it inserted, are deleted.
+ * Imports whose rows refer to rows that `importId` inserted (the rows a rollback
+ * would delete), oldest first; run after the replaced rows are restored.
  */
+export async function rollbackReferrers(
+  client: ClientBase,
+  importId: string,
+  table: TableSpec['table'],
+): Promise<RollbackBlocker[] | null> {
+  const refs = REFERRERS[table] ?? [];
+  if (!refs.length) return null;
+  const found = await client.query<{ n: number }>(
+    `SELECT count(*)::int AS n FROM (${refs
+      .map(
+        (r) =>
+          `SELECT 1 FROM ${r.table} x JOIN ${table} t ON x.${r.column} = t.${r.key}
+           WHERE t.import_id = $1::uuid AND x.import_id IS DISTINCT FROM $1::uuid`,
+      )
+      .join(' UNION ALL ')}) any_ref`,
+    [importId],
+  );
+  if (!found.rows[0].n) return null;
+  const { rows } = await client.query<RollbackBlocker>(
+    `SELECT i.id, i.kind, i.file_name, i.created_at, i.committed_at FROM imports i
+     WHERE i.id IN (${refs
+       .map(
+         (r) =>
+           `SELECT DISTINCT x.import_id FROM ${r.table} x JOIN ${table} t ON x.${r.column} = t.${r.key}
+            WHERE t.import_id = $1::uuid AND x.import_id IS DISTINCT FROM $1::uuid`,
+       )
+       .join(' UNION ')})
+     ORDER BY i.committed_at DESC NULLS LAST`,
+    [importId],
+  );
+  return rows;
+}
+
 export async function rollbackRows(
   client: ClientBase,
   importId: string,
   kind: ImportKind,
+  onReferred?: (referrers: RollbackBlocker[]) => Promise<never>,
 ): Promise<{ restored: number; deleted: number }> {
   const specs = kind === 'records' ? [TABLES.records, TABLES.students] : [TABLES[kind]];
   let restored = 0;
@@ -219,6 +238,10 @@ export async function rollbackRows(
       [importId],
     );
     restored += result.rowCount ?? 0;
+    if (onReferred) {
+      const referrers = await rollbackReferrers(client, importId, spec.table);
+      if (referrers) await onReferred(referrers);
+    }
     const removed = await client.query(`DELETE FROM ${spec.table} WHERE import_id = $1::uuid`, [
       importId,
     ]);

@@ -9,10 +9,35 @@ import {
 import type { Request, Response } from 'express';
 import multer from 'multer';
 import { randomUUID } from 'node:crypto';
+import { createWriteStream } from 'node:fs';
+import { join } from 'node:path';
+import { pipeline } from 'node:stream/promises';
 import { finalize, Observable } from 'rxjs';
 import type { AppConfig } from '../config/config';
 import { InjectConfig } from '../config/config.provider';
 import { removeQuietly, uploadLimitMb, uploadsDir } from './import-files';
+
+/** Multer's disk storage, but the file is created readable by the server only (0600). */
+function privateDiskStorage(dir: string): multer.StorageEngine {
+  return {
+    _handleFile(_req, file, done) {
+      const path = join(dir, `${randomUUID()}.incoming`);
+      const out = createWriteStream(path, { mode: 0o600, flags: 'wx' });
+      let size = 0;
+      file.stream.on('data', (chunk: Buffer) => (size += chunk.length));
+      pipeline(file.stream, out).then(
+        () => done(null, { path, size }),
+        (error: Error) => {
+          void removeQuietly(path);
+          done(error);
+        },
+      );
+    },
+    _removeFile(_req, file, done) {
+      removeQuietly(file.path).then(() => done(null), done);
+    },
+  };
+}
 
 /**
  * Streams the multipart `file` field to disk under the data folder, never whole
@@ -26,10 +51,7 @@ export class UploadInterceptor implements NestInterceptor {
   constructor(@InjectConfig() config: AppConfig) {
     const dir = uploadsDir(config.dataDir);
     this.upload = multer({
-      storage: multer.diskStorage({
-        destination: dir,
-        filename: (_req, _file, done) => done(null, `${randomUUID()}.incoming`),
-      }),
+      storage: privateDiskStorage(dir),
       limits: { fileSize: Math.floor(this.limitMb * 1024 * 1024), files: 1, fields: 20 },
     }).single('file');
   }

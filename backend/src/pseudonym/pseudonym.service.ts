@@ -2,7 +2,7 @@ import { Injectable, Logger } from '@nestjs/common';
 import type { AppConfig } from '../config/config';
 import { InjectConfig } from '../config/config.provider';
 import { readOrCreateSecret } from '../config/secrets';
-import { pseudonymFor } from './pseudonym';
+import { hmacSha256Hex, pseudonymFor } from './pseudonym';
 
 export const DEMO_PSEUDONYM_KEY_FILE = 'pseudonym-key.demo';
 
@@ -28,5 +28,13 @@ export class PseudonymService {
 
   pseudonymFor(studentId: string): string {
     return pseudonymFor(this.key, studentId);
+  }
+
+  /**
+   * The keyed digest that recognises an import file again: HMAC-SHA256 of the
+   * file's SHA-256 under the same key, so a small file cannot be found by guessing.
+   */
+  fileDigest(sha256Hex: string): string {
+    return hmacSha256Hex(this.key, `import-file:${sha256Hex}`);
   }
 }

@@ -136,14 +136,22 @@ describe('imports through the API', () => {
     expect(bad.body.message).toMatch(/'nonsense' .* is not a field of records/);
   });
 
-  it('refuses the identical file again with 409 naming the earlier import', async () => {
+  it('refuses a committed file again with 409 naming the earlier import by file name and date', async () => {
     const csv = `${RECORDS_HEADER}HX1000002,2025-FA,CMP 2310,B,3,3\n`;
-    const first = await upload(url, token, 'records', csv);
+    const first = await upload(url, token, 'records', csv, { commit: 'true' }, 'fa-grades.csv');
     expect(first.status).toBe(202);
-    await settle(url, token, first.body.id);
+    const done = await settle(url, token, first.body.id);
+    expect(done.status).toBe('committed');
     const again = await upload(url, token, 'records', csv, {}, 'renamed.csv');
     expect(again.status).toBe(409);
-    expect(again.body.message).toContain(first.body.id);
+    expect(again.body.message).toContain(
+      `the records import of 'fa-grades.csv' committed ${done.committedAt.slice(0, 16).replace('T', ' ')} UTC`,
+    );
+    expect(again.body.message).not.toContain(first.body.id);
+    const rollback = await request(url)
+      .post(`/api/imports/${first.body.id}/rollback`)
+      .set(...bearer(token));
+    expect(rollback.status).toBe(200);
   });
 
   it('reports rejections as JSON and CSV, does not commit them on commit=true, commits the rest explicitly', async () => {
@@ -254,8 +262,10 @@ describe('imports through the API', () => {
       .post(`/api/imports/${first.id}/rollback`)
       .set(...bearer(token));
     expect(refused.status).toBe(409);
-    expect(refused.body.message).toContain(later.id);
-    expect(refused.body.message).not.toContain(other.id);
+    expect(refused.body.message).toBe(
+      `This import cannot be rolled back yet: a later import replaced rows it wrote. Roll back the records import of 'records.csv' committed ${later.committedAt.slice(0, 16).replace('T', ' ')} UTC first.`,
+    );
+    expect(refused.body.message).not.toContain(later.id);
     expect(
       (
         await request(url)

@@ -99,7 +99,14 @@ function RoleNavigation({ role }: { role: Role }) {
     >
       <List
         dense
-        sx={{ display: 'flex', flexDirection: { xs: 'row', md: 'column' }, gap: 0.5, p: 1 }}
+        // On narrow screens the links run in rows that wrap, never wider than the page.
+        sx={{
+          display: 'flex',
+          flexDirection: { xs: 'row', md: 'column' },
+          flexWrap: { xs: 'wrap', md: 'nowrap' },
+          gap: 0.5,
+          p: 1,
+        }}
       >
         {items.map((item) => (
           <li key={item.path}>

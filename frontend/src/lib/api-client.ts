@@ -47,3 +47,10 @@ export function apiMessage(error: unknown): string | undefined {
   if (Array.isArray(message)) return message.join(' ');
   return typeof message === 'string' && message.length > 0 ? message : undefined;
 }
+
+/** The facts an API error carries besides its message (`details`), if any. */
+export function apiDetails(error: unknown): Record<string, string> | undefined {
+  if (!axios.isAxiosError(error)) return undefined;
+  const body = (error as AxiosError<Partial<ApiError>>).response?.data;
+  return body && typeof body === 'object' ? body.details : undefined;
+}

@@ -49,4 +49,6 @@ export interface ApiError {
   statusCode: number;
   message: string | string[];
   error: string;
+  /** Facts a client acts on besides the sentence (e.g. an import's detected encoding). */
+  details?: Record<string, string>;
 }

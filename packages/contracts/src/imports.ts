@@ -13,6 +13,7 @@ export const IMPORT_STATUSES = [
   'committed',
   'failed',
   'rolled_back',
+  'discarded',
 ] as const;
 export type ImportStatus = (typeof IMPORT_STATUSES)[number];
 
@@ -69,8 +70,12 @@ export interface ImportSummary {
   id: string;
   kind: ImportKind;
   status: ImportStatus;
+  /** The file's name, with anything shaped like a student number withheld. */
   fileName: string;
-  fileSha256: string;
+  /** The mapping the file was checked with (file header to field), or null for the default names. */
+  mapping: ImportMapping | null;
+  /** Keyed digest of the file (HMAC under the pseudonym key) that finds the same file again. */
+  fileDigest: string;
   rowsTotal: number | null;
   rowsAccepted: number | null;
   rowsRejected: number | null;
@@ -87,12 +92,26 @@ export interface ImportSummary {
   committedBy: string | null;
   rolledBackAt: string | null;
   rolledBackBy: string | null;
+  discardedAt: string | null;
+  discardedBy: string | null;
+  /**
+   * Set once validated: file columns that the mapping gave to no field, and the
+   * kind's optional fields that no column gave (left empty in every row).
+   */
+  leftOut: ImportLeftOut | null;
+  /** While the upload is kept (validated, not yet committed or discarded): the rejected rows can be downloaded whole. */
+  rejectedRowsAvailable: boolean;
   /** Validation plus commit time, in milliseconds. */
   durationMs: number | null;
   validationMs: number | null;
   commitMs: number | null;
   /** When the advising model was last rebuilt after this import's commit or rollback. */
   modelRefreshedAt: string | null;
+}
+
+export interface ImportLeftOut {
+  columns: string[];
+  fields: string[];
 }
 
 /** The answer to `POST /api/imports`. */
@@ -118,6 +137,26 @@ export interface ImportPreview {
   suggestedMappings: Record<ImportKind, ImportMapping>;
   /** For each kind, the required fields no header matches yet. */
   missingFields: Record<ImportKind, string[]>;
+  /** The kind whose required columns the headers all give, when exactly one does. */
+  likelyKind: ImportKind | null;
+  /** The encoding the file was read in (UTF-8 unless another was confirmed). */
+  encoding: ImportEncoding;
+}
+
+/** Encodings a file may be read in; any but UTF-8 only when the registrar confirms it. */
+export const IMPORT_ENCODINGS = [
+  'utf-8',
+  'windows-1252',
+  'latin-1',
+  'utf-16le',
+  'utf-16be',
+] as const;
+export type ImportEncoding = (typeof IMPORT_ENCODINGS)[number];
+
+/** `details` of the answer (422) to a file that is not UTF-8 and whose encoding was not confirmed. */
+export interface ImportEncodingQuestion {
+  detectedEncoding: ImportEncoding;
+  encodingName: string;
 }
 
 export interface SavedImportMapping {

@@ -1,4 +1,4 @@
-import { IMPORT_KINDS, type ImportKind } from '@kinpath/contracts';
+import { IMPORT_ENCODINGS, IMPORT_KINDS, type ImportKind } from '@kinpath/contracts';
 import { ApiProperty, ApiPropertyOptional } from '@nestjs/swagger';
 import { IsIn, IsOptional, IsString, MaxLength } from 'class-validator';
 
@@ -21,4 +21,29 @@ export class CreateImportDto {
   @IsOptional()
   @IsIn(['true', 'false'])
   commit?: string;
+
+  @ApiPropertyOptional({
+    enum: IMPORT_ENCODINGS,
+    description: 'The encoding the registrar confirmed for a file that is not UTF-8.',
+  })
+  @IsOptional()
+  @IsIn(IMPORT_ENCODINGS)
+  encoding?: string;
+}
+
+/** The text fields of `POST /api/imports/preview` (multipart). */
+export class PreviewImportDto {
+  @ApiPropertyOptional({ enum: IMPORT_ENCODINGS })
+  @IsOptional()
+  @IsIn(IMPORT_ENCODINGS)
+  encoding?: string;
+}
+
+/** `POST /api/imports/:id/check-again`: the new mapping. */
+export class CheckAgainDto {
+  @ApiPropertyOptional({ description: 'JSON object: the file header to the field it holds.' })
+  @IsOptional()
+  @IsString()
+  @MaxLength(20_000)
+  mapping?: string;
 }

@@ -3,8 +3,21 @@ import type { ImportKind } from '@kinpath/contracts';
 import type { GradeScaleModel } from '../../grade-scale/grade-scale.model';
 import { parsePrerequisites } from './prerequisites';
 
+import { STUDENT_NUMBER_MARK } from './withhold';
+
 /** Shown instead of a student number in every rejection: reports never hold the raw id. */
-export const WITHHELD_STUDENT_ID = '[student id withheld]';
+export const WITHHELD_STUDENT_ID = STUDENT_NUMBER_MARK;
+
+/** Longest text each field may hold (data.md, text limits); longer is refused per row. */
+export const TEXT_LIMITS: Readonly<Record<string, number>> = {
+  course_code: 16,
+  title: 200,
+  description: 4000,
+  department: 16,
+  program: 100,
+  level: 32,
+  prerequisites: 2000,
+};
 
 export interface RuleContext {
   /** Course codes already in the catalogue. */
@@ -12,6 +25,8 @@ export interface RuleContext {
   scale: GradeScaleModel;
   /** Student number to pseudonym; the number is not kept beyond this call. */
   pseudonymFor(studentId: string): string;
+  /** The institution's student-number form (config); the default when absent. */
+  studentNumber?: string;
 }
 
 /** Reports one rejected cell; `column` is the field, the caller names the file's header. */

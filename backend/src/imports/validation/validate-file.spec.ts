@@ -239,3 +239,96 @@ describe('terms and reports', () => {
     expect(reportCell('a,"b"')).toBe('"a,""b"""');
   });
 });
+
+describe('privacy of rejections', () => {
+  it('stores a student number rejected from another column as the mark, in value and reason', async () => {
+    const result = await run('records', `${RECORDS}HR0000001,2024-FA,PV7000004,A,4,3\n`);
+    expect(result.rejections).toEqual([
+      {
+        line: 2,
+        column: 'course_code',
+        value: '[student number]',
+        reason: "'[student number]' is not a course code (letters then digits, e.g. CMP 2310)",
+      },
+    ]);
+    expect(JSON.stringify(result.rejections)).not.toMatch(/PV7000004|HR0000001/);
+  });
+
+  it('never quotes the cells of a file without a header row', async () => {
+    const result = await run(
+      'records',
+      'PV7000004,2025-SP,CMP 2310,A,4,3\nPV7000005,2025-SP,CMP 2310,B,4,3\n',
+    );
+    expect(result.fatal).toMatch(/the first line holds data, not column names/);
+    expect(JSON.stringify([result.fatal, result.rejections])).not.toMatch(
+      /PV700000|CMP 2310|2025-SP/,
+    );
+  });
+
+  it('follows the institution pattern given in the context', async () => {
+    const path = join(dir, 'pattern.csv');
+    writeFileSync(path, `${RECORDS}S-12,2024-FA,S-99,A,4,3\n`);
+    const result = await validateFile({
+      path,
+      kind: 'records',
+      acceptedPath: join(dir, 'pattern-out.csv'),
+      context: {
+        knownCourses: new Set(['CMP 2310']),
+        scale: DEFAULT_SCALE_MODEL,
+        pseudonymFor: (id) => pseudonymFor(KEY, id),
+        studentNumber: 'S-[0-9]+',
+      },
+    });
+    expect(result.rejections[0]).toMatchObject({
+      column: 'course_code',
+      value: '[student number]',
+    });
+  });
+});
+
+describe('text limits and control characters', () => {
+  const CATALOGUE =
+    'course_code,title,department,credits,level,elective,prerequisites,description\n';
+
+  it('refuses text longer than its field holds, naming the limit, without storing the text', async () => {
+    const rows = [
+      `CMP 1100,${'T'.repeat(201)},CMP,3,1000,no,,`,
+      `CMP 1101,Fine,CMP,3,1000,no,,${'d'.repeat(4001)}`,
+      `CMP 1102,${'T'.repeat(200)},CMP,3,1000,no,,${'d'.repeat(4000)}`,
+    ];
+    const result = await run('catalogue', CATALOGUE + rows.join('\n') + '\n');
+    expect(result.messages).toEqual([
+      'line 2, title: is 201 characters long; title holds at most 200',
+      'line 3, description: is 4,001 characters long; description holds at most 4,000',
+    ]);
+    expect(result.rowsAccepted).toBe(1);
+    expect(result.rejections.every((r) => r.value.length <= 201)).toBe(true);
+  });
+
+  it('limits programme names to 100 characters', async () => {
+    const result = await run(
+      'students',
+      `student_id,program,entry_term,status\nHR0000001,${'P'.repeat(101)},2024-FA,active\n`,
+    );
+    expect(result.messages).toEqual([
+      'line 2, program: is 101 characters long; program holds at most 100',
+    ]);
+  });
+
+  it('refuses NUL and other control characters with line and column, and a tab outside quotes', async () => {
+    const rows = [
+      'CMP 1100,Bad\u0000Title,CMP,3,1000,no,,',
+      'CMP 1101,Bell\u0007,CMP,3,1000,no,,',
+      'CMP 1102,Tab\there,CMP,3,1000,no,,',
+      'CMP 1103,"Quoted\ttab",CMP,3,1000,no,,',
+    ];
+    const result = await run('catalogue', CATALOGUE + rows.join('\n') + '\n');
+    expect(result.messages).toEqual([
+      'line 2, title: holds a control character (NUL) at position 4; remove it',
+      'line 3, title: holds a control character (U+0007) at position 5; remove it',
+      'line 4, title: holds a tab outside quotes; put the cell in double quotes or remove the tab',
+    ]);
+    expect(result.rowsAccepted).toBe(1);
+    expect(result.accepted).toContain('Quoted\ttab');
+  });
+});

@@ -2,9 +2,17 @@ import { createReadStream, createWriteStream } from 'node:fs';
 import { once } from 'node:events';
 import type { ImportKind, ImportMapping, ImportRejection } from '@kinpath/contracts';
 import { IMPORT_FIELDS } from '@kinpath/contracts';
-import { copyCell, csvParser, detectDelimiter, headerKey, readHeaderLine } from './csv-format';
+import {
+  copyCell,
+  csvParser,
+  detectDelimiter,
+  headerKey,
+  fieldIsQuoted,
+  readHeaderLine,
+} from './csv-format';
 import type { Delimiter } from './csv-format';
-import { rulesFor, type RuleContext } from './row-rules';
+import { rulesFor, TEXT_LIMITS, WITHHELD_STUDENT_ID, type RuleContext } from './row-rules';
+import { looksLikeStudentNumber, withholdStudentNumbers } from './withhold';
 
 export interface ValidateFileOptions {
   path: string;
@@ -48,6 +56,7 @@ export function resolveColumns(
   kind: ImportKind,
   headers: string[],
   mapping?: ImportMapping | null,
+  studentNumber?: string,
 ): ResolvedColumns {
   const fields = IMPORT_FIELDS[kind];
   const names = new Set(fields.map((f) => f.name));
@@ -63,7 +72,9 @@ export function resolveColumns(
     const field = mapped.has(h) ? mapped.get(h)! : names.has(headerKey(h)) ? headerKey(h) : null;
     if (field === null || !names.has(field)) return;
     if (index.has(field)) {
-      problems.push(`columns '${header.get(field)}' and '${h}' both give ${field}`);
+      problems.push(
+        `columns '${withholdStudentNumbers(header.get(field)!, studentNumber)}' and '${withholdStudentNumbers(h, studentNumber)}' both give ${field}`,
+      );
       return;
     }
     index.set(field, i);
@@ -71,17 +82,51 @@ export function resolveColumns(
   });
   for (const [from] of mapped) {
     if (!headers.some((h) => h.trim() === from)) {
-      problems.push(`the mapping names a column '${from}' that the file does not have`);
+      problems.push(
+        `the mapping names a column '${withholdStudentNumbers(from, studentNumber)}' that the file does not have`,
+      );
     }
   }
   const missing = fields.filter((f) => f.required && !index.has(f.name)).map((f) => f.name);
-  if (missing.length) {
+  if (missing.length && headerLooksLikeData(headers, studentNumber)) {
+    // The first line is a row of data: naming its cells would quote student numbers.
     problems.push(
-      `the required column${missing.length > 1 ? 's' : ''} ${missing.join(', ')} ${missing.length > 1 ? 'are' : 'is'} missing; map ${missing.length > 1 ? 'them' : 'it'} to columns of the file (${headers.map((h) => `'${h}'`).join(', ')})`,
+      `the first line holds data, not column names: add a header row naming the columns (${fields.map((f) => f.name).join(', ')})`,
+    );
+  } else if (missing.length) {
+    problems.push(
+      `the required column${missing.length > 1 ? 's' : ''} ${missing.join(', ')} ${missing.length > 1 ? 'are' : 'is'} missing; map ${missing.length > 1 ? 'them' : 'it'} to columns of the file (${headers.map((h) => `'${withholdStudentNumbers(h, studentNumber)}'`).join(', ')})`,
     );
   }
   for (const field of names) if (!header.has(field)) header.set(field, field);
   return { index, header, problem: problems.length ? problems.join('; ') : null };
+}
+
+/** A header row of student numbers, terms, course codes or numbers is a row of data. */
+export function headerLooksLikeData(headers: string[], studentNumber?: string): boolean {
+  return headers.some(
+    (h) =>
+      looksLikeStudentNumber(h, studentNumber) ||
+      /^\d{4}-(WI|SP|SU|FA)$/i.test(h.trim()) ||
+      /^[A-Za-z]{2,6} ?\d{3,5}$/.test(h.trim()) ||
+      /^\d+(\.\d+)?$/.test(h.trim()),
+  );
+}
+
+/**
+ * A control character other than tab and line break: a line break can only stand
+ * inside quotes (a multi-line description), a tab is refused separately when unquoted.
+ */
+// eslint-disable-next-line no-control-regex -- control characters are what it finds
+const CONTROL = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f]/;
+
+const controlName = (char: string) =>
+  char === '\u0000' ? 'NUL' : `U+${char.charCodeAt(0).toString(16).toUpperCase().padStart(4, '0')}`;
+
+/** What a rejection keeps of a cell: never a student number, never more than 200 characters. */
+function storedValue(value: string, studentNumber?: string): string {
+  const clean = withholdStudentNumbers(value, studentNumber);
+  return clean.length > 200 ? `${clean.slice(0, 200)}…` : clean;
 }
 
 /**
@@ -106,12 +151,22 @@ export async function validateFile(options: ValidateFileOptions): Promise<Valida
     rejectionsTruncated: false,
     fatal: null,
   };
+  const studentNumber = context.studentNumber;
+  // Every rejection passes here: a cell that looks like a student number is stored as the mark.
   const addRejection = (rejection: ImportRejection) => {
-    if (result.rejections.length < maxRejections) result.rejections.push(rejection);
-    else result.rejectionsTruncated = true;
+    if (result.rejections.length >= maxRejections) {
+      result.rejectionsTruncated = true;
+      return;
+    }
+    result.rejections.push({
+      line: rejection.line,
+      column: withholdStudentNumbers(rejection.column, studentNumber),
+      value: storedValue(rejection.value, studentNumber),
+      reason: withholdStudentNumbers(rejection.reason, studentNumber),
+    });
   };
 
-  const out = createWriteStream(options.acceptedPath, { encoding: 'utf8' });
+  const out = createWriteStream(options.acceptedPath, { encoding: 'utf8', mode: 0o600 });
   const outClosed = once(out, 'close');
   let buffer = '';
   const flush = async () => {
@@ -146,6 +201,7 @@ export async function validateFile(options: ValidateFileOptions): Promise<Valida
     return i === undefined ? '' : (cells[i] ?? '');
   };
   let line = 0;
+  let raw = '';
   let rowOk = true;
   const reject = (field: string, value: string, reason: string) => {
     rowOk = false;
@@ -155,13 +211,15 @@ export async function validateFile(options: ValidateFileOptions): Promise<Valida
   try {
     for await (const item of parser as AsyncIterable<{
       record: string[];
+      raw: string;
       info: { lines: number };
     }>) {
       cells = item.record;
+      raw = item.raw;
       line = item.info.lines;
       if (columns === null) {
         result.headers = cells.map((h) => h.trim());
-        columns = resolveColumns(kind, result.headers, options.mapping);
+        columns = resolveColumns(kind, result.headers, options.mapping, studentNumber);
         if (columns.problem) {
           result.fatal = columns.problem;
           addRejection({ line: 1, column: '', value: '', reason: columns.problem });
@@ -177,7 +235,7 @@ export async function validateFile(options: ValidateFileOptions): Promise<Valida
           '',
           `the row has ${cells.length} field${cells.length === 1 ? '' : 's'} where the header has ${result.headers.length}`,
         );
-      } else {
+      } else if (checkText(columns, cells, (i) => fieldIsQuoted(raw, delimiter, i), reject)) {
         const row = rules.check(cell, line, reject);
         if (row !== null && rowOk) {
           const text = row.map(copyCell).join(',') + '\n';
@@ -242,6 +300,53 @@ export async function validateFile(options: ValidateFileOptions): Promise<Valida
   }
   result.rejections.sort((a, b) => a.line - b.line);
   return result;
+}
+
+/**
+ * Refuses control characters and over-long text in the mapped cells, each with its
+ * column; the row's own rules run only when these pass.
+ */
+function checkText(
+  columns: ResolvedColumns,
+  cells: string[],
+  quoted: (index: number) => boolean,
+  reject: (field: string, value: string, reason: string) => void,
+): boolean {
+  let ok = true;
+  for (const [field, i] of columns.index) {
+    const value = cells[i] ?? '';
+    const shown = field === 'student_id' ? WITHHELD_STUDENT_ID : value;
+    if (value.includes('\t') && !quoted(i)) {
+      reject(
+        field,
+        shown,
+        'holds a tab outside quotes; put the cell in double quotes or remove the tab',
+      );
+      ok = false;
+      continue;
+    }
+    const control = CONTROL.exec(value);
+    if (control) {
+      reject(
+        field,
+        // eslint-disable-next-line no-control-regex -- shown without the characters it refuses
+        field === 'student_id' ? shown : value.replace(/[\u0000-\u001f\u007f]/g, ' '),
+        `holds a control character (${controlName(control[0])}) at position ${control.index + 1}; remove it`,
+      );
+      ok = false;
+      continue;
+    }
+    const limit = TEXT_LIMITS[field];
+    if (limit !== undefined && value.trim().length > limit) {
+      reject(
+        field,
+        shown,
+        `is ${value.trim().length.toLocaleString('en')} characters long; ${field} holds at most ${limit.toLocaleString('en')}`,
+      );
+      ok = false;
+    }
+  }
+  return ok;
 }
 
 /** csv-parse's messages quote the cell, which may be a student number: say what is wrong, not what was there. */

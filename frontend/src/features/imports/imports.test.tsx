@@ -31,7 +31,8 @@ function summary(overrides: Partial<ImportSummary> = {}): ImportSummary {
     kind: 'records',
     status: 'validated',
     fileName: 'term-data-2026-FA.csv',
-    fileSha256: 'ab'.repeat(32),
+    fileDigest: 'ab'.repeat(32),
+    mapping: null,
     rowsTotal: 1207,
     rowsAccepted: 1204,
     rowsRejected: 3,
@@ -45,6 +46,10 @@ function summary(overrides: Partial<ImportSummary> = {}): ImportSummary {
     committedBy: null,
     rolledBackAt: null,
     rolledBackBy: null,
+    discardedAt: null,
+    discardedBy: null,
+    leftOut: { columns: [], fields: [] },
+    rejectedRowsAvailable: true,
     durationMs: 840,
     validationMs: 840,
     commitMs: null,
@@ -96,6 +101,8 @@ const DEFAULT_HEADERS_PREVIEW: ImportPreview = {
     students: ['student_id'],
     records: ['student_id', 'term', 'grade'],
   },
+  likelyKind: 'catalogue',
+  encoding: 'utf-8',
 };
 
 const OTHER_HEADERS_PREVIEW: ImportPreview = {
@@ -117,6 +124,8 @@ const OTHER_HEADERS_PREVIEW: ImportPreview = {
     students: [],
     records: ['grade'],
   },
+  likelyKind: 'students',
+  encoding: 'utf-8',
 };
 
 function importsApi(extra: Record<string, FakeHandler> = {}) {
@@ -155,6 +164,58 @@ describe('the upload form', { timeout: 40_000 }, () => {
     expect(api.requests.filter((r) => r.method === 'POST')).toEqual([]);
   });
 
+  it('asks to confirm the encoding of a file that is not UTF-8, then sends it with that encoding', async () => {
+    let sent: FormData | undefined;
+    const previews: (string | null)[] = [];
+    api = importsApi({
+      'POST /imports/preview': ({ body }) => {
+        const encoding = (body as FormData).get('encoding') as string | null;
+        previews.push(encoding);
+        return encoding === 'windows-1252'
+          ? { status: 200, data: { ...DEFAULT_HEADERS_PREVIEW, encoding: 'windows-1252' } }
+          : {
+              status: 422,
+              data: {
+                statusCode: 422,
+                message:
+                  'The file is not UTF-8; it looks like Windows-1252 (Western European). Confirm the encoding to read it in, or save the file as UTF-8.',
+                error: 'Unprocessable Entity',
+                details: {
+                  detectedEncoding: 'windows-1252',
+                  encodingName: 'Windows-1252 (Western European)',
+                },
+              },
+            };
+      },
+      'POST /imports': ({ body }) => {
+        sent = body as FormData;
+        return { status: 202, data: { id: TERM_DATA_ID, status: 'queued' } };
+      },
+      [`GET /imports/${TERM_DATA_ID}`]: () => ({
+        status: 200,
+        data: summary({ kind: 'catalogue' }),
+      }),
+      [`GET /imports/${TERM_DATA_ID}/errors`]: () => ({ status: 200, data: [] }),
+    });
+    signInAs('registrar');
+    renderApp('/registrar/imports');
+    const user = userEvent.setup();
+    await screen.findByRole('heading', { level: 1, name: 'Imports' });
+    await user.selectOptions(uploadForm().getByLabelText('Kind of file'), 'catalogue');
+    await user.upload(uploadForm().getByLabelText('Choose a CSV file'), csv('latin.csv', 'x'));
+    const question = await uploadForm().findByText(/it looks like Windows-1252/);
+    expect(question).toHaveTextContent('Characters are never replaced');
+    await user.click(
+      uploadForm().getByRole('button', { name: 'Read it as Windows-1252 (Western European)' }),
+    );
+    expect(await uploadForm().findByText(/Every catalogue column was found/)).toBeInTheDocument();
+    expect(previews).toEqual([null, 'windows-1252']);
+    await user.click(uploadForm().getByLabelText('Import without them'));
+    await user.click(uploadForm().getByRole('button', { name: 'Upload and check' }));
+    await screen.findByRole('heading', { level: 2, name: /Catalogue import/ });
+    expect(sent?.get('encoding')).toBe('windows-1252');
+  });
+
   it('sends the file with its kind and shows the new import', async () => {
     let sent: FormData | undefined;
     api = importsApi({
@@ -180,6 +241,15 @@ describe('the upload form', { timeout: 40_000 }, () => {
     );
     expect(await uploadForm().findByText(/Every catalogue column was found/)).toBeInTheDocument();
     await user.click(uploadForm().getByLabelText('Commit at once when no row is rejected'));
+    // Optional fields the file does not give are named; nothing is sent until that is confirmed.
+    await user.click(uploadForm().getByRole('button', { name: 'Upload and check' }));
+    expect(
+      await uploadForm().findByText(
+        'Left empty in every row: credits, level, elective, prerequisites, description (no column of the file gave them).',
+      ),
+    ).toBeInTheDocument();
+    expect(sent).toBeUndefined();
+    await user.click(uploadForm().getByLabelText('Import without them'));
     await user.click(uploadForm().getByRole('button', { name: 'Upload and check' }));
 
     expect(
@@ -250,6 +320,7 @@ describe('the upload form', { timeout: 40_000 }, () => {
       },
     });
 
+    await user.click(uploadForm().getByLabelText('Import without them'));
     await user.click(uploadForm().getByRole('button', { name: 'Upload and check' }));
     await screen.findByRole('heading', { level: 2, name: /Term data import/ });
     expect(JSON.parse(sent?.get('mapping') as string)).toEqual({
@@ -268,8 +339,10 @@ describe('the upload form', { timeout: 40_000 }, () => {
         status: 409,
         data: {
           statusCode: 409,
-          message: `This file was imported already: import ${earlier} (catalogue, uploaded 2026-11-02T10:00:00.000Z, committed).`,
+          message:
+            "This file was committed already: the catalogue import of 'catalogue.csv' committed 2026-11-02 10:00 UTC. Roll that import back first to import the same file again.",
           error: 'Conflict',
+          details: { earlierImportId: earlier },
         },
       }),
       [`GET /imports/${earlier}`]: () => ({
@@ -284,10 +357,13 @@ describe('the upload form', { timeout: 40_000 }, () => {
     await screen.findByRole('heading', { level: 1, name: 'Imports' });
     await user.selectOptions(uploadForm().getByLabelText('Kind of file'), 'catalogue');
     await user.upload(uploadForm().getByLabelText('Choose a CSV file'), csv('catalogue.csv', 'x'));
+    await user.click(uploadForm().getByLabelText('Import without them'));
     await user.click(uploadForm().getByRole('button', { name: 'Upload and check' }));
 
-    const alert = await uploadForm().findByRole('alert');
-    expect(alert).toHaveTextContent('This file was imported before');
+    const alert = await uploadForm().findByText(/^This file was committed already/);
+    expect(alert).toHaveTextContent(
+      "the catalogue import of 'catalogue.csv' committed 2026-11-02 10:00 UTC",
+    );
     await user.click(within(alert).getByRole('link', { name: 'Open the earlier import' }));
     expect(router.state.location.search).toBe(`?import=${earlier}`);
     expect(
@@ -426,7 +502,7 @@ describe('commit and rollback', { timeout: 40_000 }, () => {
     );
     expect(await detail.findByText('HRX 9999')).toBeInTheDocument();
 
-    await user.click(detail.getByRole('button', { name: 'Download rejected rows (CSV)' }));
+    await user.click(detail.getByRole('button', { name: 'Download validation report (CSV)' }));
     await waitFor(() => expect(click).toHaveBeenCalled());
     expect(csvAccept).toBe('text/csv');
     expect(createObjectURL).toHaveBeenCalled();

@@ -1,6 +1,6 @@
-import type { ImportKind, ImportPreview, ImportSummary } from '@kinpath/contracts';
+import type { ImportEncoding, ImportKind, ImportPreview, ImportSummary } from '@kinpath/contracts';
 import { IMPORT_FIELDS } from '@kinpath/contracts';
-import { apiMessage, httpStatus } from '../../lib/api-client';
+import { apiDetails, apiMessage, httpStatus } from '../../lib/api-client';
 import { KIND_DATA, KIND_KEYS, KIND_LABELS, dateTime, formatCount, rows } from './words';
 
 export interface UploadFailure {
@@ -16,12 +16,15 @@ export function uploadFailure(error: unknown): UploadFailure {
   const status = httpStatus(error);
   const message = apiMessage(error);
   if (status === 409) {
-    const earlierImportId = message?.match(UUID)?.[0];
+    const earlierImportId = apiDetails(error)?.earlierImportId ?? message?.match(UUID)?.[0];
     return {
-      text: 'This file was imported before, so it was not imported again. Roll that import back first if the file should replace it.',
+      text:
+        message ??
+        'This file was committed before, so it was not imported again. Roll that import back first if the file should replace it.',
       earlierImportId,
     };
   }
+  if (status === 422 && message) return { text: message };
   if (status === 413) {
     const limit = message?.match(/(\d+(?:\.\d+)?)\s*MB/)?.[1];
     return {
@@ -42,14 +45,40 @@ export function uploadFailure(error: unknown): UploadFailure {
   return { text: 'The upload failed on the server. Try again in a moment.' };
 }
 
-/** Commit and rollback refusals (409) carry the reason; other failures get a plain line. */
-export function actionFailure(error: unknown, action: 'commit' | 'rollback'): string {
+/** Commit, rollback and discard refusals (409) carry the reason; other failures get a plain line. */
+export function actionFailure(error: unknown, action: 'commit' | 'rollback' | 'discard'): string {
   const message = apiMessage(error);
   const status = httpStatus(error);
   if ((status === 409 || status === 400) && message) return message;
   return action === 'commit'
     ? 'The commit could not be started. Try again in a moment.'
-    : 'The rollback failed; nothing was changed. Try again in a moment.';
+    : action === 'discard'
+      ? 'The import could not be discarded. Try again in a moment.'
+      : 'The rollback failed; nothing was changed. Try again in a moment.';
+}
+
+/** The confirmation before a discard: nothing was written, the file goes, the history stays. */
+export function discardConfirmation(summary: ImportSummary): string {
+  return (
+    `Discard the ${KIND_LABELS[summary.kind].toLowerCase()} import of ${summary.fileName}. ` +
+    'Nothing of it was written to the term data. The uploaded file is removed from the server, and the import stays in the history as discarded, so the same file can be uploaded again.'
+  );
+}
+
+/** Columns of the file that no field took, and optional fields no column gave, in a sentence. */
+export function leftOutSentence(leftOut: { columns: string[]; fields: string[] }): string | null {
+  const parts: string[] = [];
+  if (leftOut.columns.length) {
+    parts.push(
+      `Not imported: the file’s ${leftOut.columns.length === 1 ? 'column' : 'columns'} ${leftOut.columns.map((c) => `‘${c}’`).join(', ')} ${leftOut.columns.length === 1 ? 'was' : 'were'} mapped to no field.`,
+    );
+  }
+  if (leftOut.fields.length) {
+    parts.push(
+      `Left empty in every row: ${leftOut.fields.join(', ')} (no column of the file gave ${leftOut.fields.length === 1 ? 'it' : 'them'}).`,
+    );
+  }
+  return parts.length ? parts.join(' ') : null;
 }
 
 /** The confirmation before a commit: what goes in, what stays out, and how it can be undone. */
@@ -152,4 +181,30 @@ export function mappingProblems(kind: ImportKind, columns: FieldColumns): Record
     if (other) problems[field.name] = `Column ‘${header}’ is chosen for ${other.name} too.`;
   }
   return problems;
+}
+
+/** A file that is not UTF-8: the encoding the server detected, for the registrar to confirm. */
+export function encodingQuestion(
+  error: unknown,
+): { encoding: ImportEncoding; name: string; message: string } | null {
+  const details = apiDetails(error);
+  if (httpStatus(error) !== 422 || !details?.detectedEncoding) return null;
+  return {
+    encoding: details.detectedEncoding as ImportEncoding,
+    name: details.encodingName ?? details.detectedEncoding,
+    message: apiMessage(error) ?? '',
+  };
+}
+
+/** What the mapping leaves out: columns of the file that no field takes, optional fields no column gives. */
+export function leftOutOf(
+  kind: ImportKind,
+  headers: readonly string[],
+  columns: FieldColumns,
+): { columns: string[]; fields: string[] } {
+  const used = new Set(Object.values(columns).filter(Boolean));
+  return {
+    columns: headers.filter((h) => h.trim() !== '' && !used.has(h)),
+    fields: IMPORT_FIELDS[kind].filter((f) => !f.required && !columns[f.name]).map((f) => f.name),
+  };
 }

@@ -49,6 +49,7 @@ const STATUS_LABELS: Record<ImportStatus, string> = {
   committed: 'Committed',
   failed: 'Failed',
   rolled_back: 'Rolled back',
+  discarded: 'Discarded',
 };
 
 /** The status in words; a commit of only the accepted rows says so. */

@@ -1,6 +1,7 @@
 import { useMutation, useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import type {
   ImportAccepted,
+  ImportEncoding,
   ImportKind,
   ImportMapping,
   ImportPreview,
@@ -70,18 +71,21 @@ export interface UploadRequest {
   kind: ImportKind;
   mapping: ImportMapping | null;
   commit: boolean;
+  /** The encoding the registrar confirmed for a file that is not UTF-8. */
+  encoding?: ImportEncoding | null;
   onProgress?: (fraction: number | null) => void;
 }
 
 export function useUpload() {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: async ({ file, kind, mapping, commit, onProgress }: UploadRequest) => {
+    mutationFn: async ({ file, kind, mapping, commit, encoding, onProgress }: UploadRequest) => {
       const form = new FormData();
       // Text fields first: the server reads them before it streams the file to disk.
       form.append('kind', kind);
       if (mapping) form.append('mapping', JSON.stringify(mapping));
       if (commit) form.append('commit', 'true');
+      if (encoding) form.append('encoding', encoding);
       form.append('file', file, file.name);
       const response = await apiClient.post<ImportAccepted>('/imports', form, {
         // A large file takes longer than the client's usual minute to send.
@@ -100,8 +104,9 @@ export const PREVIEW_BYTES = 256 * 1024;
 
 export function usePreview() {
   return useMutation({
-    mutationFn: async (file: File) => {
+    mutationFn: async ({ file, encoding }: { file: File; encoding?: ImportEncoding | null }) => {
       const form = new FormData();
+      if (encoding) form.append('encoding', encoding);
       form.append('file', file.slice(0, PREVIEW_BYTES), file.name);
       return (await apiClient.post<ImportPreview>('/imports/preview', form)).data;
     },
@@ -124,7 +129,7 @@ export function useSaveMapping() {
   });
 }
 
-function useImportAction(action: 'commit' | 'rollback') {
+function useImportAction(action: 'commit' | 'rollback' | 'discard') {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: async (id: string) =>
@@ -138,17 +143,54 @@ function useImportAction(action: 'commit' | 'rollback') {
 
 export const useCommit = () => useImportAction('commit');
 export const useRollback = () => useImportAction('rollback');
+export const useDiscard = () => useImportAction('discard');
 
-/** The rejected rows as the server's CSV, saved by the browser as a file. */
+/** The kept file of a validated import, read again to choose another mapping. */
+export function useKeptPreview(id: string, enabled: boolean) {
+  return useQuery({
+    queryKey: ['imports', 'kept-preview', id],
+    queryFn: async () => (await apiClient.get<ImportPreview>(`/imports/${id}/preview`)).data,
+    enabled,
+    staleTime: Infinity,
+  });
+}
+
+/** Checks the kept file again with another mapping; answers the new import. */
+export function useCheckAgain() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: async ({ id, mapping }: { id: string; mapping: ImportMapping }) =>
+      (
+        await apiClient.post<ImportAccepted>(`/imports/${id}/check-again`, {
+          mapping: JSON.stringify(mapping),
+        })
+      ).data,
+    onSuccess: () => refreshAfterChange(queryClient),
+  });
+}
+
+/** The report of rejected cells (line, column, value, reason) as CSV, saved by the browser. */
 export async function downloadRejections(summary: ImportSummary): Promise<void> {
   const response = await apiClient.get<Blob>(`/imports/${summary.id}/errors`, {
     headers: { Accept: 'text/csv' },
     responseType: 'blob',
   });
-  const url = URL.createObjectURL(response.data);
+  save(response.data, rejectionsFileName(summary.fileName));
+}
+
+/** The rejected rows themselves, in the file's own columns plus a reason, ready to fix. */
+export async function downloadRejectedRows(summary: ImportSummary): Promise<void> {
+  const response = await apiClient.get<Blob>(`/imports/${summary.id}/rejected-rows`, {
+    responseType: 'blob',
+  });
+  save(response.data, rowsToFixFileName(summary.fileName));
+}
+
+function save(blob: Blob, name: string) {
+  const url = URL.createObjectURL(blob);
   const link = document.createElement('a');
   link.href = url;
-  link.download = rejectionsFileName(summary.fileName);
+  link.download = name;
   document.body.append(link);
   link.click();
   link.remove();
@@ -158,5 +200,10 @@ export async function downloadRejections(summary: ImportSummary): Promise<void> 
 
 export function rejectionsFileName(fileName: string): string {
   const base = fileName.replace(/\.[^.]*$/, '') || 'import';
-  return `${base}-rejected-rows.csv`;
+  return `${base}-validation-report.csv`;
+}
+
+export function rowsToFixFileName(fileName: string): string {
+  const base = fileName.replace(/\.[^.]*$/, '') || 'import';
+  return `${base}-rows-to-fix.csv`;
 }

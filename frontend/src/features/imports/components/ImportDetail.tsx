@@ -10,20 +10,33 @@ import Typography from '@mui/material/Typography';
 import Download from '@mui/icons-material/Download';
 import type { ImportStatus, ImportSummary } from '@kinpath/contracts';
 import { ConfirmDialog } from '../../../components/ConfirmDialog';
+import { useSearchParams } from 'react-router';
 import {
+  downloadRejectedRows,
   downloadRejections,
   refreshAfterChange,
+  useCheckAgain,
   useCommit,
+  useDiscard,
   useImport,
+  useKeptPreview,
   useRejections,
   useRollback,
 } from '../api/imports';
+import { apiMessage } from '../../../lib/api-client';
 import {
   actionFailure,
+  columnsFromSuggestion,
   commitButtonLabel,
   commitConfirmation,
+  discardConfirmation,
+  leftOutSentence,
+  mappingProblems,
   rollbackConfirmation,
+  toMapping,
+  type FieldColumns,
 } from '../messages';
+import { ColumnMapping } from './ColumnMapping';
 import { KIND_LABELS, dateTime, duration, formatCount, isRunning, rows } from '../words';
 import { modelCaughtUp } from './ImportHistory';
 import { StatusLabel } from './StatusLabel';
@@ -55,6 +68,8 @@ export function statusSentence(summary: ImportSummary): string {
       return 'Failed; nothing of this import was written.';
     case 'rolled_back':
       return 'Rolled back; the rows it replaced have their earlier values again.';
+    case 'discarded':
+      return 'Discarded; nothing of this import was written, and its file was removed.';
   }
 }
 
@@ -148,6 +163,12 @@ function Facts({ summary }: { summary: ImportSummary }) {
           <Fact term="Rolled back by">{summary.rolledBackBy ?? '—'}</Fact>
         </>
       ) : null}
+      {summary.discardedAt ? (
+        <>
+          <Fact term="Discarded">{dateTime(summary.discardedAt)}</Fact>
+          <Fact term="Discarded by">{summary.discardedBy ?? '—'}</Fact>
+        </>
+      ) : null}
       {summary.status === 'committed' || summary.status === 'rolled_back' ? (
         <Fact term="Estimates caught up">{modelCaughtUp(summary)}</Fact>
       ) : null}
@@ -155,20 +176,96 @@ function Facts({ summary }: { summary: ImportSummary }) {
   );
 }
 
+/** Maps the kept file again and checks it as a new import; this one is then discarded. */
+function CheckAgain({ summary, onClose }: { summary: ImportSummary; onClose: () => void }) {
+  const preview = useKeptPreview(summary.id, true);
+  const checkAgain = useCheckAgain();
+  const [, setParams] = useSearchParams();
+  const [columns, setColumns] = useState<FieldColumns | null>(null);
+  const [tried, setTried] = useState(false);
+  useEffect(() => {
+    if (!preview.data || columns) return;
+    const saved = summary.mapping;
+    setColumns(
+      saved
+        ? Object.fromEntries(
+            Object.entries(columnsFromSuggestion(summary.kind, preview.data)).map(([field]) => [
+              field,
+              Object.keys(saved).find((h) => saved[h] === field) ?? '',
+            ]),
+          )
+        : columnsFromSuggestion(summary.kind, preview.data),
+    );
+  }, [preview.data, columns, summary]);
+  if (preview.isPending) {
+    return (
+      <Typography role="status" sx={{ color: 'text.secondary' }}>
+        Reading the kept file’s header…
+      </Typography>
+    );
+  }
+  if (preview.isError || !columns) {
+    return (
+      <Alert severity="error" role="alert">
+        {apiMessage(preview.error) ?? 'The kept file could not be read. Upload the file again.'}
+      </Alert>
+    );
+  }
+  const problems = mappingProblems(summary.kind, columns);
+  const submit = async () => {
+    setTried(true);
+    if (Object.keys(problems).length > 0) return;
+    try {
+      const next = await checkAgain.mutateAsync({ id: summary.id, mapping: toMapping(columns) });
+      setParams({ import: next.id });
+    } catch {
+      // Shown below from the mutation's error.
+    }
+  };
+  return (
+    <Stack spacing={1.5}>
+      <ColumnMapping
+        kind={summary.kind}
+        preview={preview.data}
+        columns={columns}
+        onChange={setColumns}
+        problems={tried ? problems : {}}
+        differs
+      />
+      {checkAgain.isError ? (
+        <Alert severity="error" role="alert">
+          {apiMessage(checkAgain.error) ?? 'The file could not be checked again. Try again.'}
+        </Alert>
+      ) : null}
+      <Box sx={{ display: 'flex', gap: 1.5, flexWrap: 'wrap' }}>
+        <Button variant="contained" onClick={submit} loading={checkAgain.isPending}>
+          Check again with this mapping
+        </Button>
+        <Button onClick={onClose}>Cancel</Button>
+      </Box>
+    </Stack>
+  );
+}
+
 function Report({ summary }: { summary: ImportSummary }) {
   const headingId = useId();
   const rejections = useRejections(summary.id, true);
-  const [downloading, setDownloading] = useState(false);
+  const [downloading, setDownloading] = useState<'report' | 'rows' | null>(null);
   const [downloadError, setDownloadError] = useState<string | null>(null);
-  const onDownload = async () => {
-    setDownloading(true);
+  const onDownload = async (what: 'report' | 'rows') => {
+    setDownloading(what);
     setDownloadError(null);
     try {
-      await downloadRejections(summary);
+      if (what === 'report') await downloadRejections(summary);
+      else await downloadRejectedRows(summary);
     } catch {
-      setDownloadError('The rejected rows could not be downloaded. Try again in a moment.');
+      setDownloadError(
+        what === 'report'
+          ? 'The validation report could not be downloaded. Try again in a moment.'
+          : 'The rows to fix could not be downloaded: the uploaded file is kept only until the import is committed or discarded.',
+      );
     } finally {
-      setDownloading(false);
+      setDownloading(null);
     }
   };
   return (
@@ -186,15 +283,32 @@ function Report({ summary }: { summary: ImportSummary }) {
         <Typography id={headingId} variant="h3">
           Validation report
         </Typography>
-        <Button
-          variant="outlined"
-          startIcon={<Download aria-hidden />}
-          onClick={onDownload}
-          loading={downloading}
-        >
-          Download rejected rows (CSV)
-        </Button>
+        <Box sx={{ display: 'flex', gap: 1, flexWrap: 'wrap' }}>
+          {summary.rejectedRowsAvailable ? (
+            <Button
+              variant="outlined"
+              startIcon={<Download aria-hidden />}
+              onClick={() => onDownload('rows')}
+              loading={downloading === 'rows'}
+            >
+              Download rows to fix (CSV)
+            </Button>
+          ) : null}
+          <Button
+            variant="outlined"
+            startIcon={<Download aria-hidden />}
+            onClick={() => onDownload('report')}
+            loading={downloading === 'report'}
+          >
+            Download validation report (CSV)
+          </Button>
+        </Box>
       </Box>
+      <Typography variant="body2" sx={{ color: 'text.secondary', mb: 1 }}>
+        {summary.rejectedRowsAvailable
+          ? 'Rows to fix: the rejected rows in the file’s own columns with a reason column, ready to correct and import again. They are read from the uploaded file, which the server keeps only until this import is committed or discarded. The validation report keeps line, column and reason.'
+          : 'The validation report lists line, column, value and reason of each rejected cell; student numbers are never kept in it.'}
+      </Typography>
       {downloadError ? (
         <Alert severity="error" role="alert" sx={{ mb: 1 }}>
           {downloadError}
@@ -215,7 +329,7 @@ function Report({ summary }: { summary: ImportSummary }) {
   );
 }
 
-type Pending = 'commit' | 'rollback' | null;
+type Pending = 'commit' | 'rollback' | 'discard' | null;
 
 /** The import chosen on the page: its progress, counts, report, and commit or rollback. */
 export function ImportDetail({ id }: { id: string }) {
@@ -223,8 +337,10 @@ export function ImportDetail({ id }: { id: string }) {
   const query = useImport(id);
   const commit = useCommit();
   const rollback = useRollback();
+  const discard = useDiscard();
   const queryClient = useQueryClient();
   const [pending, setPending] = useState<Pending>(null);
+  const [mappingAgain, setMappingAgain] = useState(false);
   const status: ImportStatus | undefined = query.data?.status;
 
   // When a job finishes, or the estimates catch up, the history, terms and catalogue are read again.
@@ -256,17 +372,20 @@ export function ImportDetail({ id }: { id: string }) {
   const running = isRunning(summary.status);
   const canCommit = summary.status === 'validated' && (summary.rowsAccepted ?? 0) > 0;
   const canRollback = summary.status === 'committed';
+  const canDiscard = summary.status === 'validated';
   const hasReport = !running && (summary.rowsRejected ?? 0) > 0 && summary.status !== 'queued';
-  const action = pending === 'commit' ? commit : rollback;
+  const action = pending === 'commit' ? commit : pending === 'discard' ? discard : rollback;
 
   const close = () => {
     commit.reset();
     rollback.reset();
+    discard.reset();
     setPending(null);
   };
   const confirm = async () => {
     try {
       if (pending === 'commit') await commit.mutateAsync(summary.id);
+      else if (pending === 'discard') await discard.mutateAsync(summary.id);
       else await rollback.mutateAsync(summary.id);
       setPending(null);
     } catch {
@@ -301,11 +420,24 @@ export function ImportDetail({ id }: { id: string }) {
           </Alert>
         ) : null}
         <Facts summary={summary} />
-        {canCommit || canRollback ? (
+        {summary.leftOut && leftOutSentence(summary.leftOut) ? (
+          <Alert severity="info">{leftOutSentence(summary.leftOut)}</Alert>
+        ) : null}
+        {canCommit || canRollback || canDiscard ? (
           <Box sx={{ display: 'flex', gap: 1.5, flexWrap: 'wrap' }}>
             {canCommit ? (
               <Button variant="contained" onClick={() => setPending('commit')}>
                 {commitButtonLabel(summary)}
+              </Button>
+            ) : null}
+            {canDiscard && !mappingAgain ? (
+              <Button variant="outlined" onClick={() => setMappingAgain(true)}>
+                Check again with another mapping
+              </Button>
+            ) : null}
+            {canDiscard ? (
+              <Button variant="outlined" color="error" onClick={() => setPending('discard')}>
+                Discard
               </Button>
             ) : null}
             {canRollback ? (
@@ -314,6 +446,9 @@ export function ImportDetail({ id }: { id: string }) {
               </Button>
             ) : null}
           </Box>
+        ) : null}
+        {canDiscard && mappingAgain ? (
+          <CheckAgain summary={summary} onClose={() => setMappingAgain(false)} />
         ) : null}
         {hasReport ? <Report summary={summary} /> : null}
         {summary.status === 'validated' && (summary.rowsRejected ?? 0) === 0 && canCommit ? (
@@ -324,15 +459,31 @@ export function ImportDetail({ id }: { id: string }) {
       </Stack>
       <ConfirmDialog
         open={pending !== null}
-        title={pending === 'rollback' ? 'Roll back this import?' : 'Commit this import?'}
-        confirmLabel={pending === 'rollback' ? 'Roll back' : commitButtonLabel(summary)}
-        tone={pending === 'rollback' ? 'error' : 'primary'}
+        title={
+          pending === 'rollback'
+            ? 'Roll back this import?'
+            : pending === 'discard'
+              ? 'Discard this import?'
+              : 'Commit this import?'
+        }
+        confirmLabel={
+          pending === 'rollback'
+            ? 'Roll back'
+            : pending === 'discard'
+              ? 'Discard'
+              : commitButtonLabel(summary)
+        }
+        tone={pending === 'commit' ? 'primary' : 'error'}
         onConfirm={confirm}
         onCancel={close}
         busy={action.isPending}
         error={action.isError && pending ? actionFailure(action.error, pending) : null}
       >
-        {pending === 'rollback' ? rollbackConfirmation(summary) : commitConfirmation(summary)}
+        {pending === 'rollback'
+          ? rollbackConfirmation(summary)
+          : pending === 'discard'
+            ? discardConfirmation(summary)
+            : commitConfirmation(summary)}
       </ConfirmDialog>
     </Paper>
   );

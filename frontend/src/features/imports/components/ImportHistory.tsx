@@ -167,7 +167,11 @@ export function ImportHistory({
         table={table}
         labelledBy={labelledBy}
         scrollable
-        sx={{ '& th, & td': { px: 1.25 }, '& td': { verticalAlign: 'top' } }}
+        sx={{
+          '& th, & td': { px: 1 },
+          // File names and long messages wrap rather than widen the table past the page.
+          '& td': { verticalAlign: 'top', overflowWrap: 'anywhere' },
+        }}
         hover
         rowProps={(row) => ({
           selected: row.id === selectedId,

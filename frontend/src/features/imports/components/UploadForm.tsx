@@ -11,13 +11,21 @@ import Link from '@mui/material/Link';
 import Stack from '@mui/material/Stack';
 import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
-import { IMPORT_FIELDS, IMPORT_KINDS, type ImportKind } from '@kinpath/contracts';
-import { apiMessage } from '../../../lib/api-client';
+import {
+  IMPORT_FIELDS,
+  IMPORT_KINDS,
+  type ImportEncoding,
+  type ImportKind,
+} from '@kinpath/contracts';
+import { apiMessage, httpStatus } from '../../../lib/api-client';
 import { fieldProps } from '../../../lib/form';
 import { usePreview, useUpload } from '../api/imports';
 import {
   columnsFromSuggestion,
+  encodingQuestion,
   headersDiffer,
+  leftOutOf,
+  leftOutSentence,
   mappingProblems,
   toMapping,
   uploadFailure,
@@ -52,12 +60,17 @@ export function UploadForm({ onUploaded }: UploadFormProps) {
   const [columns, setColumns] = useState<FieldColumns>({});
   const [showMapping, setShowMapping] = useState(false);
   const [mappingTried, setMappingTried] = useState(false);
+  const [encoding, setEncoding] = useState<ImportEncoding | null>(null);
+  const [leftOutConfirmed, setLeftOutConfirmed] = useState(false);
+  const [leftOutTried, setLeftOutTried] = useState(false);
+  const leftOutId = useId();
   const {
     control,
     register,
     handleSubmit,
     watch,
     reset,
+    setValue,
     formState: { errors, isSubmitting },
   } = useForm<UploadFields>({ defaultValues: EMPTY });
   const kind = watch('kind');
@@ -66,9 +79,13 @@ export function UploadForm({ onUploaded }: UploadFormProps) {
   // The preview is read once per chosen file; it serves every kind.
   const { mutate: readPreview, reset: resetPreview } = preview;
   useEffect(() => {
-    if (file) readPreview(file);
+    setEncoding(null);
+  }, [file]);
+  useEffect(() => {
+    if (file) readPreview({ file, encoding });
     else resetPreview();
-  }, [file, readPreview, resetPreview]);
+  }, [file, encoding, readPreview, resetPreview]);
+  const question = file && preview.isError ? encodingQuestion(preview.error) : null;
 
   const previewData = preview.data && file ? preview.data : null;
   const differs = useMemo(
@@ -81,8 +98,18 @@ export function UploadForm({ onUploaded }: UploadFormProps) {
     setMappingTried(false);
     setShowMapping(false);
   }, [kind, previewData]);
+  useEffect(() => {
+    setLeftOutConfirmed(false);
+    setLeftOutTried(false);
+  }, [kind, previewData, columns]);
 
   const problems = kind && previewData ? mappingProblems(kind, columns) : {};
+  const leftOut = kind && previewData ? leftOutOf(kind, previewData.headers, columns) : null;
+  const leftOutText = leftOut ? leftOutSentence(leftOut) : null;
+  const likely =
+    kind && previewData?.likelyKind && previewData.likelyKind !== kind
+      ? previewData.likelyKind
+      : null;
   const mappingVisible = Boolean(kind && previewData && (differs || showMapping));
 
   const onSubmit = handleSubmit(async (values) => {
@@ -93,6 +120,10 @@ export function UploadForm({ onUploaded }: UploadFormProps) {
       setShowMapping(true);
       return;
     }
+    if (leftOutText && !leftOutConfirmed) {
+      setLeftOutTried(true);
+      return;
+    }
     setProgress(null);
     try {
       const accepted = await upload.mutateAsync({
@@ -100,6 +131,7 @@ export function UploadForm({ onUploaded }: UploadFormProps) {
         kind: values.kind,
         mapping: previewData ? toMapping(columns) : null,
         commit: values.commitAtOnce,
+        encoding,
         onProgress: setProgress,
       });
       reset(EMPTY);
@@ -165,13 +197,54 @@ export function UploadForm({ onUploaded }: UploadFormProps) {
             Reading the file’s header…
           </Typography>
         ) : null}
-        {file && preview.isError ? (
+        {question ? (
+          <Alert
+            severity="warning"
+            role="alert"
+            action={
+              <Button color="inherit" size="small" onClick={() => setEncoding(question.encoding)}>
+                Read it as {question.name}
+              </Button>
+            }
+          >
+            {question.message} Characters are never replaced: a byte that {question.name} does not
+            define stops the import with its line.
+          </Alert>
+        ) : null}
+        {encoding && previewData ? (
+          <Typography variant="body2" role="status">
+            Read as {encoding === 'utf-8' ? 'UTF-8' : encoding}; check the first rows below.
+          </Typography>
+        ) : null}
+        {file && preview.isError && !question && httpStatus(preview.error) === 400 ? (
+          // An empty or binary file: the server says what it is, and it cannot be imported.
+          <Alert severity="error" role="alert">
+            {apiMessage(preview.error)}
+          </Alert>
+        ) : file && preview.isError && !question ? (
           <Alert severity="warning" role="alert">
             The file’s first rows could not be read ({apiMessage(preview.error) ?? 'no answer'}). It
             can still be uploaded; the server checks every row.
           </Alert>
         ) : null}
 
+        {likely && kind && previewData && previewData.missingFields[kind].length > 0 ? (
+          <Alert
+            severity="warning"
+            action={
+              <Button
+                color="inherit"
+                size="small"
+                onClick={() => setValue('kind', likely, { shouldValidate: true })}
+              >
+                Import as {KIND_LABELS[likely].toLowerCase()}
+              </Button>
+            }
+          >
+            The columns look like a {KIND_LABELS[likely].toLowerCase()} file, not{' '}
+            {KIND_LABELS[kind].toLowerCase()}.
+          </Alert>
+        ) : null}
         {kind && previewData && !mappingVisible ? (
           <Box sx={{ display: 'flex', gap: 1, alignItems: 'center', flexWrap: 'wrap' }}>
             <Typography variant="body2" role="status">
@@ -191,6 +264,32 @@ export function UploadForm({ onUploaded }: UploadFormProps) {
             problems={mappingTried ? problems : {}}
             differs={differs}
           />
+        ) : null}
+
+        {leftOutText ? (
+          <Alert
+            severity={leftOutTried ? 'error' : 'info'}
+            role={leftOutTried ? 'alert' : undefined}
+          >
+            <Typography id={leftOutId} variant="body2" sx={{ mb: 0.5 }}>
+              {leftOutText}
+            </Typography>
+            <FormControlLabel
+              control={
+                <Checkbox
+                  checked={leftOutConfirmed}
+                  onChange={(event) => setLeftOutConfirmed(event.target.checked)}
+                  slotProps={{ input: { 'aria-describedby': leftOutId } }}
+                />
+              }
+              label="Import without them"
+            />
+            {leftOutTried && !leftOutConfirmed ? (
+              <Typography variant="body2">
+                Confirm that these are meant to be left out, or choose their columns above.
+              </Typography>
+            ) : null}
+          </Alert>
         ) : null}
 
         <Controller

@@ -161,7 +161,9 @@ export function ValidationReport({
         table={table}
         labelledBy={labelledBy}
         scrollable
-        cellSx={(cell) => (cell.column.id === 'reason' ? { minWidth: 280 } : undefined)}
+        // Long values and reasons wrap anywhere, so the report fits its panel and is never cut off.
+        sx={{ '& td': { overflowWrap: 'anywhere', verticalAlign: 'top' } }}
+        cellSx={(cell) => (cell.column.id === 'reason' ? { minWidth: 160 } : undefined)}
         empty="No rejected cell matches the filters."
       />
     </Box>

@@ -71,7 +71,8 @@ export function ImportsPage() {
         sx={{
           display: 'grid',
           gap: 3,
-          gridTemplateColumns: { xs: '1fr', lg: 'minmax(0, 5fr) minmax(0, 6fr)' },
+          // Side by side only on wide screens: at 1366 px the report needs the full width.
+          gridTemplateColumns: { xs: '1fr', xl: 'minmax(0, 5fr) minmax(0, 6fr)' },
           alignItems: 'start',
           mb: 4,
         }}
