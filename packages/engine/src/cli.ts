@@ -4,7 +4,7 @@ import { parseArgs } from 'node:util';
 import { predictSignal, resolveSettings, similarities } from './api';
 import { evaluate, EvaluationPlan } from './evaluate';
 import { buildTable, modelFromTable, RecordError, RecordTable } from './model';
-import { Scale, Settings, Signal } from './types';
+import { Scale, Settings, SettingsInput, Signal } from './types';
 
 const USAGE = `usage: kinpath-engine <neighbours|predict|evaluate> --records FILE [options]
   neighbours --student ID... [--students-file F] [--limit 50]
@@ -220,7 +220,7 @@ function main(argv: string[]): void {
     }
     scales[signal] = { min: Number(m[1]), max: Number(m[2]) };
   }
-  const partial: Partial<Settings> = { similaritySignal: signal };
+  const partial: SettingsInput = { similaritySignal: signal };
   if (o.similarity) partial.similarity = o.similarity as Settings['similarity'];
   const iuf = onOff(o.iuf, 'iuf');
   if (iuf !== undefined) partial.iuf = iuf;
