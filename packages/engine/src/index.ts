@@ -18,8 +18,25 @@ export { CONFIDENCE_DESCRIPTION, CONFIDENCE_RULE, DEFAULT_SCALES } from './score
 export { scoreBatch, toStudentPrediction, defaultWorkerPath } from './batch';
 export type { BatchRequest, BatchOptions, StudentScores, CompactSignal } from './batch';
 export { BASIS_NAMES, CONFIDENCE_NAMES } from './score';
-export { evaluate, HOLDOUT_MIN_EARLIER_RECORDS } from './evaluate';
-export type { EvaluationPlan, EvaluationReport, Metrics, SignalEvaluation } from './evaluate';
+export { evaluate, calibrateRanges, HOLDOUT_MIN_EARLIER_RECORDS } from './evaluate';
+export type {
+  EvaluationPlan,
+  EvaluationReport,
+  Margin,
+  Metrics,
+  RangeMetrics,
+  SignalEvaluation,
+} from './evaluate';
+export {
+  likelyRange,
+  rangeTable,
+  confidenceOfWidth,
+  RANGE_CONFIDENCE_DESCRIPTION,
+  RANGE_CONFIDENCE_RULE,
+  RANGE_LEVEL,
+  RANGE_MIN_CELLS,
+} from './ranges';
+export type { LikelyRange, RangeBin, RangeTable } from './ranges';
 export {
   choiceProbabilities,
   expectedLoad,
