@@ -25,6 +25,7 @@ import {
   REPO_ROOT,
   waitForModel,
 } from '../support/advising';
+import { engineCliArgs } from '../support/engine-cli-args';
 
 const REF = /^[A-Za-z0-9_-]{16}$/;
 const HEX64 = /[0-9a-f]{64}/;
@@ -345,20 +346,7 @@ describe('the electives', () => {
         'grade',
         '--scale',
         `${scale.body.minPoints}:${scale.body.maxPoints}`,
-        '--similarity',
-        settings.similarity,
-        '--iuf',
-        settings.iuf ? 'on' : 'off',
-        '--center',
-        settings.center ? 'on' : 'off',
-        '--k',
-        String(settings.k),
-        '--min-neighbours',
-        String(settings.minNeighbours),
-        '--min-similarity',
-        String(settings.minSimilarity),
-        '--significance',
-        String(settings.significance),
+        ...engineCliArgs(settings, 'grade'),
         ...body.electives.flatMap((e) => ['--course', e.courseCode]),
       ];
       const out = JSON.parse(execFileSync(process.execPath, args, { encoding: 'utf8' })) as {

@@ -43,8 +43,14 @@ export function resolveSettings(partial: SettingsInput = {}): Settings {
     ...(center !== undefined ? { centring: center ? 'studentMean' : 'none' } : {}),
     ...rest,
     damping: {
-      grade: { ...base.damping.grade, ...rest.damping?.grade },
-      satisfaction: { ...base.damping.satisfaction, ...rest.damping?.satisfaction },
+      grade: {
+        student: rest.damping?.grade?.student ?? base.damping.grade.student,
+        course: rest.damping?.grade?.course ?? base.damping.grade.course,
+      },
+      satisfaction: {
+        student: rest.damping?.satisfaction?.student ?? base.damping.satisfaction.student,
+        course: rest.damping?.satisfaction?.course ?? base.damping.satisfaction.course,
+      },
     },
   };
   const bad = (what: string): never => {

@@ -3,8 +3,8 @@
  * See README.md for the public surface and ../../docs or the design notes for the method.
  */
 export * from './types';
-export { buildModel, RecordError } from './model';
-export type { Model } from './model';
+export { buildModel, buildTable, modelFromTable, RecordError } from './model';
+export type { Model, RecordTable } from './model';
 export {
   resolveSettings,
   similarities,
@@ -28,6 +28,7 @@ export type {
   SignalEvaluation,
 } from './evaluate';
 export {
+  applyRanges,
   likelyRange,
   rangeTable,
   confidenceOfWidth,

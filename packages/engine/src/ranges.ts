@@ -1,7 +1,7 @@
 import { scorerFor } from './api';
 import { Model } from './model';
 import { baselineValue, BASIS_NEIGHBOURS, DEFAULT_SCALES } from './score';
-import { Confidence, Scale, Settings, Signal } from './types';
+import { Confidence, Scale, Settings, Signal, SignalPrediction, StudentPrediction } from './types';
 
 /**
  * Likely ranges (method.md, "Likely range"): split-conformal intervals from the residuals of a
@@ -206,4 +206,60 @@ export function residualCells(
     x = y;
   }
   return out;
+}
+
+const LEVEL: Record<Confidence, number> = { low: 0, medium: 1, high: 2 };
+
+/**
+ * The prediction with likely ranges: each signal's range and the confidence its width gives
+ * (low without a range); the fit takes the lower confidence of the signals it rests on.
+ */
+export function applyRanges(
+  model: Model,
+  prediction: StudentPrediction,
+  tables: Partial<Record<Signal, RangeTable>> | null | undefined,
+): StudentPrediction {
+  const a = model.studentIndex.get(prediction.student) ?? -1;
+  const records = (s: Signal) => {
+    const d = model.signals[s];
+    return a >= 0 ? d.rowPtr[a + 1] - d.rowPtr[a] : 0;
+  };
+  const one = (s: Signal, p: SignalPrediction): SignalPrediction => {
+    const r =
+      p.value === null
+        ? null
+        : likelyRange(
+            tables?.[s],
+            p.value,
+            records(s),
+            p.basis === 'neighbours' ? (p.strength ?? 0) : 0,
+          );
+    return {
+      ...p,
+      range: r ? { low: r.low, high: r.high } : null,
+      confidence: r ? r.confidence : 'low',
+    };
+  };
+  return {
+    student: prediction.student,
+    predictions: prediction.predictions.map((c) => {
+      const grade = one('grade', c.grade);
+      const satisfaction = one('satisfaction', c.satisfaction);
+      const from =
+        c.fitFrom === 'both'
+          ? [grade, satisfaction]
+          : c.fitFrom === 'grade'
+            ? [grade]
+            : c.fitFrom === 'satisfaction'
+              ? [satisfaction]
+              : [];
+      const confidence = from.length
+        ? from.reduce<Confidence>(
+            (lo, x) => (LEVEL[x.confidence] < LEVEL[lo] ? x.confidence : lo),
+            'high',
+          )
+        : 'low';
+      return { ...c, grade, satisfaction, confidence };
+    }),
+  };
 }

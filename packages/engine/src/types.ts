@@ -155,6 +155,8 @@ export interface SignalPrediction {
   confidence: Confidence;
   /** Kin strength: the kin's summed |w| (0 unless basis is 'neighbours'). */
   strength?: number;
+  /** The likely range (80 %), when ranges were applied (applyRanges); null without one. */
+  range?: { low: number; high: number } | null;
 }
 
 export interface CoursePrediction {

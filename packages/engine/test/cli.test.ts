@@ -39,7 +39,19 @@ M.forEach((r, u) =>
   r.forEach((v, j) => v !== null && rows.push(`user${u + 1},item${j + 1},2016-FA,${v},`)),
 );
 const records = file('records.csv', rows.join('\n') + '\n');
-const textbook = ['--similarity', 'pearson', '--iuf', 'off', '--k', '2', '--min-neighbours', '2'];
+// The original method (--center on), which the textbook example follows.
+const textbook = [
+  '--center',
+  'on',
+  '--similarity',
+  'pearson',
+  '--iuf',
+  'off',
+  '--k',
+  '2',
+  '--min-neighbours',
+  '2',
+];
 
 describe('kinpath-engine command line', () => {
   it('predict: JSON Lines in the order the courses were given', () => {
@@ -95,6 +107,8 @@ describe('kinpath-engine command line', () => {
       records,
       '--student',
       'user3',
+      '--center',
+      'on',
       '--similarity',
       'pearson',
       '--iuf',
@@ -112,6 +126,8 @@ describe('kinpath-engine command line', () => {
       records,
       '--student',
       'user3',
+      '--center',
+      'on',
       '--similarity',
       'pearson',
       '--iuf',
