@@ -41,7 +41,17 @@ describe('likely ranges', () => {
       ranges: true,
     });
     for (const s of ['grade', 'satisfaction'] as const) {
+      const b = report.signals[s]!.baselines;
+      console.log(
+        `demo holdout 2026-FA, ${s}, baselines (MAE / RMSE):`,
+        Object.entries(b)
+          .map(([k, m]) => `${k} ${m.mae!.toFixed(4)} / ${m.rmse!.toFixed(4)}`)
+          .join(', '),
+      );
       for (const c of report.signals[s]!.configurations) {
+        console.log(
+          `demo holdout 2026-FA, ${s}, ${c.settings.centring}: MAE ${c.mae!.toFixed(4)}, RMSE ${c.rmse!.toFixed(4)}, n ${c.n}`,
+        );
         const r = c.ranges!;
         console.log(
           `demo holdout 2026-FA, ${s}, ${c.settings.centring}: range coverage ${(100 * r.coverage!).toFixed(1)} %`,
