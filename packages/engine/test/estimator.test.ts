@@ -29,14 +29,22 @@ function baseline(R: Matrix, lu: number, lj: number) {
   const bj = R[0].map((_, j) => {
     let s = 0;
     let n = 0;
-    for (const row of R) if (row[j] !== null) ((s += (row[j] as number) - mu), n++);
+    for (const row of R) {
+      if (row[j] !== null) {
+        s += (row[j] as number) - mu;
+        n++;
+      }
+    }
     return n ? s / (n + lj) : 0;
   });
   const bu = R.map((row) => {
     let s = 0;
     let n = 0;
     row.forEach((x, j) => {
-      if (x !== null) ((s += x - mu - bj[j]), n++);
+      if (x !== null) {
+        s += x - mu - bj[j];
+        n++;
+      }
     });
     return n ? s / (n + lu) : 0;
   });
@@ -248,7 +256,10 @@ function korenItemOriented(
     let s = 0;
     let n = 0;
     Rt.forEach((row, us) => {
-      if (row[it] !== null) ((s += (row[it] as number) - mu - bu[us]), n++);
+      if (row[it] !== null) {
+        s += (row[it] as number) - mu - bu[us];
+        n++;
+      }
     });
     return n ? s / (n + lambdaItem) : 0;
   });
