@@ -73,6 +73,13 @@ export interface Settings {
   alpha: number;
 }
 
+function dampings(gs: number, gc: number, ss: number, sc: number): Record<Signal, Damping> {
+  return Object.freeze({
+    grade: Object.freeze({ student: gs, course: gc }),
+    satisfaction: Object.freeze({ student: ss, course: sc }),
+  });
+}
+
 /** The estimator of method.md: baseline-centred residual cosine, satisfaction helped by enrolment. */
 export const DEFAULT_SETTINGS: Readonly<Settings> = Object.freeze({
   gradeSimilarity: 'grade',
@@ -80,10 +87,7 @@ export const DEFAULT_SETTINGS: Readonly<Settings> = Object.freeze({
   similarity: 'cosine',
   iuf: true,
   centring: 'baseline',
-  damping: Object.freeze({
-    grade: Object.freeze({ student: 1, course: 5 }),
-    satisfaction: Object.freeze({ student: 5, course: 5 }),
-  }),
+  damping: dampings(1, 5, 5, 5),
   k: 30,
   minNeighbours: 5,
   minSimilarity: 0,
@@ -102,10 +106,7 @@ export const MEAN_CENTRED_SETTINGS: Readonly<Settings> = Object.freeze({
   gradeSimilarity: 'grade',
   satisfactionSimilarity: 'grade',
   centring: 'studentMean',
-  damping: Object.freeze({
-    grade: Object.freeze({ student: 5, course: 5 }),
-    satisfaction: Object.freeze({ student: 5, course: 5 }),
-  }),
+  damping: dampings(5, 5, 5, 5),
   shrinkage: 0,
   tieDigits: 0,
 }) as Readonly<Settings>;

@@ -40,18 +40,8 @@ M.forEach((r, u) =>
 );
 const records = file('records.csv', rows.join('\n') + '\n');
 // The original method (--center on), which the textbook example follows.
-const textbook = [
-  '--center',
-  'on',
-  '--similarity',
-  'pearson',
-  '--iuf',
-  'off',
-  '--k',
-  '2',
-  '--min-neighbours',
-  '2',
-];
+const pearsonOriginal = ['--center', 'on', '--similarity', 'pearson', '--iuf', 'off'];
+const textbook = [...pearsonOriginal, '--k', '2', '--min-neighbours', '2'];
 
 describe('kinpath-engine command line', () => {
   it('predict: JSON Lines in the order the courses were given', () => {
@@ -101,19 +91,7 @@ describe('kinpath-engine command line', () => {
   });
 
   it('neighbours: most similar first, only above min-similarity, with overlap', () => {
-    const r = run(
-      'neighbours',
-      '--records',
-      records,
-      '--student',
-      'user3',
-      '--center',
-      'on',
-      '--similarity',
-      'pearson',
-      '--iuf',
-      'off',
-    );
+    const r = run('neighbours', '--records', records, '--student', 'user3', ...pearsonOriginal);
     expect(r.code).toBe(0);
     expect(r.lines[0].neighbours.map((n: { student: string }) => n.student)).toEqual([
       'user2',
@@ -126,12 +104,7 @@ describe('kinpath-engine command line', () => {
       records,
       '--student',
       'user3',
-      '--center',
-      'on',
-      '--similarity',
-      'pearson',
-      '--iuf',
-      'off',
+      ...pearsonOriginal,
       '--min-similarity=-2',
       '--limit',
       '3',

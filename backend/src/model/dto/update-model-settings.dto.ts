@@ -10,6 +10,7 @@ import {
   SIMILARITY_MEASURES,
   SIMILARITY_SOURCES,
 } from '@kinpath/contracts';
+import { applyDecorators } from '@nestjs/common';
 import { ApiProperty, ApiPropertyOptional } from '@nestjs/swagger';
 import {
   IsBoolean,
@@ -58,6 +59,17 @@ function PearsonCentring(options?: ValidationOptions) {
 
 const SOURCE_LIST = SIMILARITY_SOURCES.join(', ');
 
+/** A baseline damping: a number from 0 to the limit. */
+function DampingField(name: string, example: number) {
+  const range = `${name} must be from 0 to ${LIMITS.damping.max}.`;
+  return applyDecorators(
+    ApiProperty({ minimum: LIMITS.damping.min, maximum: LIMITS.damping.max, example }),
+    IsNumber({ allowNaN: false, allowInfinity: false }, { message: `${name} must be a number.` }),
+    Min(LIMITS.damping.min, { message: range }),
+    Max(LIMITS.damping.max, { message: range }),
+  );
+}
+
 /** Every setting of method.md, each with its accepted range; errors say which and why. */
 export class UpdateModelSettingsDto implements UpdateModelSettingsRequest {
   @ApiProperty({ enum: SIMILARITY_MEASURES, example: 'cosine' })
@@ -81,56 +93,16 @@ export class UpdateModelSettingsDto implements UpdateModelSettingsRequest {
   @IsIn(SIMILARITY_SOURCES, { message: `satisfactionSimilarity must be one of ${SOURCE_LIST}.` })
   satisfactionSimilarity: SimilaritySourceName;
 
-  @ApiProperty({ minimum: LIMITS.damping.min, maximum: LIMITS.damping.max, example: 1 })
-  @IsNumber(
-    { allowNaN: false, allowInfinity: false },
-    { message: 'gradeDampingStudent must be a number.' },
-  )
-  @Min(LIMITS.damping.min, {
-    message: `gradeDampingStudent must be from 0 to ${LIMITS.damping.max}.`,
-  })
-  @Max(LIMITS.damping.max, {
-    message: `gradeDampingStudent must be from 0 to ${LIMITS.damping.max}.`,
-  })
+  @DampingField('gradeDampingStudent', 1)
   gradeDampingStudent: number;
 
-  @ApiProperty({ minimum: LIMITS.damping.min, maximum: LIMITS.damping.max, example: 5 })
-  @IsNumber(
-    { allowNaN: false, allowInfinity: false },
-    { message: 'gradeDampingCourse must be a number.' },
-  )
-  @Min(LIMITS.damping.min, {
-    message: `gradeDampingCourse must be from 0 to ${LIMITS.damping.max}.`,
-  })
-  @Max(LIMITS.damping.max, {
-    message: `gradeDampingCourse must be from 0 to ${LIMITS.damping.max}.`,
-  })
+  @DampingField('gradeDampingCourse', 5)
   gradeDampingCourse: number;
 
-  @ApiProperty({ minimum: LIMITS.damping.min, maximum: LIMITS.damping.max, example: 5 })
-  @IsNumber(
-    { allowNaN: false, allowInfinity: false },
-    { message: 'satisfactionDampingStudent must be a number.' },
-  )
-  @Min(LIMITS.damping.min, {
-    message: `satisfactionDampingStudent must be from 0 to ${LIMITS.damping.max}.`,
-  })
-  @Max(LIMITS.damping.max, {
-    message: `satisfactionDampingStudent must be from 0 to ${LIMITS.damping.max}.`,
-  })
+  @DampingField('satisfactionDampingStudent', 5)
   satisfactionDampingStudent: number;
 
-  @ApiProperty({ minimum: LIMITS.damping.min, maximum: LIMITS.damping.max, example: 5 })
-  @IsNumber(
-    { allowNaN: false, allowInfinity: false },
-    { message: 'satisfactionDampingCourse must be a number.' },
-  )
-  @Min(LIMITS.damping.min, {
-    message: `satisfactionDampingCourse must be from 0 to ${LIMITS.damping.max}.`,
-  })
-  @Max(LIMITS.damping.max, {
-    message: `satisfactionDampingCourse must be from 0 to ${LIMITS.damping.max}.`,
-  })
+  @DampingField('satisfactionDampingCourse', 5)
   satisfactionDampingCourse: number;
 
   @ApiProperty({ minimum: LIMITS.k.min, maximum: LIMITS.k.max, example: 30 })
