@@ -51,3 +51,5 @@ export {
 export type { ForecastStudent, CourseDemand } from './forecast';
 export { generateUniversity, registrarTermOrder } from './generator';
 export type { University, UniversityOptions } from './generator';
+export { suggestSettings, SUGGESTION_GRID } from './suggest';
+export type { Suggestion, SettingsChange } from './suggest';

@@ -1,5 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { evaluate, MEAN_CENTRED_SETTINGS, RANGE_MIN_CELLS, rangeTable } from '../src';
+import {
+  evaluate,
+  MEAN_CENTRED_SETTINGS,
+  RANGE_MIN_CELLS,
+  rangeTable,
+  suggestSettings,
+} from '../src';
 // The Halden Reach demo generator (tools/demo), the data the product ships with.
 // @ts-expect-error plain ES module without types
 import { generate } from '../../../tools/demo/generate.mjs';
@@ -83,4 +89,25 @@ describe('likely ranges', () => {
       expect(b.high).toBeCloseTo(0.396, 1);
     }
   });
+});
+
+describe('suggest settings', () => {
+  it('judges the grid on the term before the holdout and reports the gain on the holdout', () => {
+    const grid = [{}, { shrinkage: 0, k: 5 }, { centring: 'studentMean' as const }];
+    const s = suggestSettings(demoRecords(), '2026-4', MEAN_CENTRED_SETTINGS, {
+      grid,
+      scales: { grade: { min: 0, max: 4 }, satisfaction: { min: 1, max: 5 } },
+    });
+    console.log(
+      `suggest settings on the demo: tuned on ${s.tuningTerm}`,
+      s.tried.map((t) => t.score.toFixed(4)).join(', '),
+      `; holdout mean MAE best ${s.holdout.best.toFixed(4)}, in force ${s.holdout.current.toFixed(4)}`,
+    );
+    expect(s.tuningTerm).toBe('2026-2');
+    // The chosen point has the lowest tuning score, and the gain is measured on the holdout.
+    const min = Math.min(...s.tried.map((t) => t.score));
+    expect(s.tried.find((t) => t.settings === s.best)?.score).toBe(min);
+    expect(s.holdout.gain).toBeCloseTo(s.holdout.current - s.holdout.best, 12);
+    expect(s.tried).toHaveLength(3);
+  }, 60_000);
 });
