@@ -229,7 +229,17 @@ describe('the electives', () => {
     ]);
     expect(body.term).toBe(terms.body.next);
     expect(body.settingsVersion).toBe((settings.body as ModelSettingsResponse).version);
-    expect(body.confidenceRule).toMatch(/High: at least 20/);
+    expect(body.confidenceRule).toMatch(/high when the 80 % range spans at most 20 %/);
+    // Estimates from kin carry their kin strength and an 80 % likely range around the value.
+    const fromKin = body.electives.filter((e) => e.bases.grade === 'neighbours');
+    expect(fromKin.length).toBeGreaterThan(0);
+    for (const e of fromKin) {
+      expect(e.kinStrength.grade).toBeGreaterThan(0);
+      const r = e.likelyRange.grade;
+      expect(r, e.courseCode).not.toBeNull();
+      expect(r!.low).toBeLessThanOrEqual(e.predictedGrade!);
+      expect(r!.high).toBeGreaterThanOrEqual(e.predictedGrade!);
+    }
     const offered = await withDatabase(async (db) => {
       const { rows } = await db.query<{ course_code: string }>(
         `SELECT o.course_code FROM offerings o JOIN courses c USING (course_code)
