@@ -162,7 +162,13 @@ describe('model settings', () => {
       createdBy: DEMO_USERS.registrar,
       note: 'Pearson for comparison',
       restoredFrom: null,
-      settings: { ...start.settings, similarity: 'pearson', k: 40, significance: 10 },
+      settings: {
+        ...start.settings,
+        similarity: 'pearson',
+        centring: 'studentMean',
+        k: 40,
+        significance: 10,
+      },
     });
     expect(await read(advisor)).toEqual(next);
 
