@@ -61,12 +61,10 @@ describe('model settings and backtests in the browser', () => {
     await chart.getByText('Fewer kin (k 15)').waitFor();
     await chart.getByText('Damped bias (baseline)').waitFor();
     expect(await chart.locator('.MuiBarElement-root').count()).toBe(6);
-    // Each configuration shows its margin over the best baseline and its range coverage.
-    await current
-      .getByText(/^[+−]?\d\.\d{3}$/)
-      .first()
-      .waitFor();
-    await current.getByText(/ %$/).first().waitFor();
+    // Each configuration shows its margin over the best baseline, with its interval, and how
+    // often its likely ranges held the outcome, per confidence level.
+    await current.getByRole('cell', { name: /\d\.\d{3} to [+−]?\d\.\d{3}$/ }).waitFor();
+    await current.getByRole('cell', { name: /^\d+\.\d %\s*(high|medium|low) / }).waitFor();
 
     await expectAccessible(page);
   }, 240_000);
