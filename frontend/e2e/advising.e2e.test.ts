@@ -143,7 +143,7 @@ describe('the advisor’s workspace', { timeout: 120_000 }, () => {
 
     const panel = page.getByRole('dialog', { name: `Why these estimates for ${courseCode}?` });
     await panel.waitFor();
-    await panel.getByRole('heading', { name: 'What made these students alike' }).waitFor();
+    await panel.getByRole('heading', { name: 'What made these students alike (grade)' }).waitFor();
     expect(await panel.textContent()).toMatch(/Kin count\s*\d+/);
     expect(await panel.textContent()).toMatch(/collaborative filtering/i);
     await expectDialogAccessible(page);

@@ -54,11 +54,17 @@ describe('model settings and backtests in the browser', () => {
     // The best MAE is marked in words, once.
     expect(await table.getByText('lowest MAE').count()).toBe(1);
 
-    const chart = page.getByRole('figure', { name: /Grade MAE per configuration and baseline/ });
+    const chart = page.getByRole('figure', {
+      name: /Grade MAE per configuration \(green\) and baseline \(grey\)/,
+    });
     await chart.locator('svg').first().waitFor();
     await chart.getByText('Fewer kin (k 15)').waitFor();
     await chart.getByText('Damped bias (baseline)').waitFor();
     expect(await chart.locator('.MuiBarElement-root').count()).toBe(6);
+    // Each configuration shows its margin over the best baseline, with its interval, and how
+    // often its likely ranges held the outcome, per confidence level.
+    await current.getByRole('cell', { name: /\d\.\d{3} to [+−]?\d\.\d{3}$/ }).waitFor();
+    await current.getByRole('cell', { name: /^\d+\.\d %\s*(high|medium|low) / }).waitFor();
 
     await expectAccessible(page);
   }, 240_000);

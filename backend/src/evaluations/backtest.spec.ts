@@ -1,4 +1,4 @@
-import { DEFAULT_MODEL_SETTINGS } from '@kinpath/contracts';
+import { MEAN_CENTRED_MODEL_SETTINGS } from '@kinpath/contracts';
 import { describe, expect, it } from 'vitest';
 import { termSortKey } from '../model/term-keys';
 import { runBacktest, type BacktestInput, type BacktestRecords } from './backtest';
@@ -72,7 +72,8 @@ function input(): BacktestInput {
     columns.grades.push(grade);
     columns.satisfaction.push(NaN);
   }
-  const base = { ...DEFAULT_MODEL_SETTINGS, iuf: false };
+  // The original method (mean-centred), which the hand calculation follows.
+  const base = { ...MEAN_CENTRED_MODEL_SETTINGS, iuf: false };
   return {
     records: columns,
     scales: { grade: { min: 0, max: 4 }, satisfaction: { min: 1, max: 5 } },

@@ -8,6 +8,7 @@ import type {
 import { EVALUATION_BASELINES, EVALUATION_SIGNALS } from '@kinpath/contracts';
 import { evaluate, type Metrics, type Scale, type SignalEvaluation } from '@kinpath/engine';
 import { engineSettings } from '../model/engine-settings';
+import { termOfSortKey } from '../model/term-keys';
 
 /** Records as the model reads them: parallel arrays, terms already as the engine's keys. */
 export interface BacktestRecords {
@@ -37,9 +38,8 @@ export interface BacktestOutput {
 export type BacktestProgress = (done: number, total: number) => void;
 
 const UNKNOWN_DEPARTMENT = 'unknown';
-
 function row(
-  metrics: Metrics,
+  metrics: Metrics & Partial<Pick<SignalEvaluation['configurations'][number], 'margin' | 'ranges'>>,
   signal: EvaluationSignal,
   name: string,
   configuration: number | null,
@@ -55,6 +55,10 @@ function row(
     kind: configuration === null ? 'baseline' : 'configuration',
     configuration,
     baseline,
+    margin: metrics.margin ?? null,
+    ranges: metrics.ranges
+      ? { ...metrics.ranges, calibrationTerm: termOfSortKey(metrics.ranges.calibrationTerm) }
+      : null,
   };
 }
 
@@ -90,7 +94,7 @@ export function runBacktest(input: BacktestInput, onProgress?: BacktestProgress)
   const configurationRows: EvaluationResult[][] = [];
   let baselines: EvaluationResult[] = [];
   settings.forEach((one, index) => {
-    const report = evaluate(records, plan, [one], options);
+    const report = evaluate(records, plan, [one], { ...options, ranges: true });
     const rows: EvaluationResult[] = [];
     for (const signal of EVALUATION_SIGNALS) {
       const signalReport = report.signals[signal];
@@ -116,7 +120,7 @@ export function runBacktest(input: BacktestInput, onProgress?: BacktestProgress)
       holdoutKey,
       (course) => departmentOf(course) === department,
     );
-    const report = evaluate(subset, plan, settings, options);
+    const report = evaluate(subset, plan, settings, { ...options, bootstrap: 0 });
     for (const signal of EVALUATION_SIGNALS) {
       const signalReport = report.signals[signal];
       if (!signalReport) continue;

@@ -1,5 +1,5 @@
 import type { ModelSettings, ModelSettingsVersion } from '@kinpath/contracts';
-import { DEFAULT_MODEL_SETTINGS } from '@kinpath/contracts';
+import { DEFAULT_MODEL_SETTINGS, MEAN_CENTRED_MODEL_SETTINGS } from '@kinpath/contracts';
 import { BadRequestException, Injectable, NotFoundException } from '@nestjs/common';
 import { InjectDataSource } from '@nestjs/typeorm';
 import type { DataSource, EntityManager } from 'typeorm';
@@ -31,9 +31,19 @@ const SELECT_VERSIONS = `
 
 const SETTING_KEYS = Object.keys(DEFAULT_MODEL_SETTINGS) as (keyof ModelSettings)[];
 
-/** Only the known settings, defaults for any a stored version lacks (an older version's shape). */
-export function completeSettings(stored: Partial<ModelSettings>): ModelSettings {
-  const out = { ...DEFAULT_MODEL_SETTINGS } as Record<keyof ModelSettings, unknown>;
+/**
+ * Only the known settings, defaults for any a stored version lacks. A shape from before the
+ * estimator settings (it has `center`) means the original method: its values fill the gaps,
+ * and `center` off is centring none.
+ */
+export function completeSettings(
+  stored: Partial<ModelSettings> & { center?: boolean },
+): ModelSettings {
+  const original = stored.center !== undefined && stored.centring === undefined;
+  const out = {
+    ...(original ? MEAN_CENTRED_MODEL_SETTINGS : DEFAULT_MODEL_SETTINGS),
+    ...(original && stored.center === false ? { centring: 'none' } : {}),
+  } as Record<keyof ModelSettings, unknown>;
   for (const key of SETTING_KEYS) if (stored[key] !== undefined) out[key] = stored[key];
   return out as unknown as ModelSettings;
 }

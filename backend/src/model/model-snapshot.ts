@@ -1,5 +1,5 @@
 import type { TermsResponse } from '@kinpath/contracts';
-import type { Model } from '@kinpath/engine';
+import type { Model, RangeTable, RecordTable, Signal } from '@kinpath/engine';
 import type { GradeScaleModel } from '../grade-scale/grade-scale.model';
 import type { PrerequisiteNode } from '../imports/validation/prerequisites';
 
@@ -20,6 +20,10 @@ export interface CatalogueEntry {
  */
 export interface ModelSnapshot {
   model: Model;
+  /** The validated records the model was built from, kept for likely-range calibration. */
+  table: RecordTable;
+  /** Likely-range tables per settings version, made on first use (see ModelService.ranges). */
+  ranges: Map<number, Partial<Record<Signal, RangeTable>>>;
   builtAt: Date;
   scale: GradeScaleModel;
   courses: ReadonlyMap<string, CatalogueEntry>;

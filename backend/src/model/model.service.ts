@@ -1,5 +1,15 @@
 import type { TermsResponse } from '@kinpath/contracts';
-import { buildModel, similarities, type Model, type Scale } from '@kinpath/engine';
+import {
+  buildTable,
+  calibrateRanges,
+  modelFromTable,
+  similarities,
+  type Model,
+  type RangeTable,
+  type Scale,
+  type Signal,
+} from '@kinpath/engine';
+import type { ModelSettingsVersion } from '@kinpath/contracts';
 import {
   Injectable,
   Logger,
@@ -25,6 +35,8 @@ import { ModelSettingsService } from './model-settings.service';
 import { termSortKey } from './term-keys';
 
 const SATISFACTION_SCALE: Scale = { min: 1, max: 5 };
+/** Held-out students behind the likely ranges (every m-th of the term's), bounding the cost. */
+const RANGE_STUDENTS = 2000;
 
 /** Records arrive as parallel arrays; repeated keys share one string. */
 export interface RecordColumns {
@@ -146,12 +158,15 @@ export class ModelService implements OnApplicationBootstrap, OnModuleDestroy {
     const { records: columns, scale, scales, courses } = data;
     const { offerings, pendingImports } = data.alongside;
     const terms: TermsResponse = await this.catalogue.terms();
-    const model: Model = buildModel(columns, { scales });
+    const table = buildTable(columns, { scales });
+    const model: Model = modelFromTable(table);
     const electives = [...courses.values()]
       .filter((c) => c.elective)
       .sort((a, b) => (a.courseCode < b.courseCode ? -1 : a.courseCode > b.courseCode ? 1 : 0));
     const snapshot: ModelSnapshot = {
       model,
+      table,
+      ranges: new Map(),
       builtAt: new Date(),
       scale,
       courses,
@@ -346,5 +361,35 @@ export class ModelService implements OnApplicationBootstrap, OnModuleDestroy {
     if (first === undefined) return;
     const current = await this.settings.current();
     similarities(snapshot.model, first, engineSettings(current.settings), 1);
+    this.ranges(snapshot, current);
+  }
+
+  /**
+   * Likely-range tables for a settings version: the residuals of a backtest on the last
+   * completed term (trained on the terms before it), at most RANGE_STUDENTS held-out
+   * students. Empty when there is no such term with earlier terms to learn from.
+   */
+  ranges(
+    snapshot: ModelSnapshot,
+    version: ModelSettingsVersion,
+  ): Partial<Record<Signal, RangeTable>> {
+    let tables = snapshot.ranges.get(version.version);
+    if (!tables) {
+      tables = {};
+      const term = snapshot.terms.current;
+      const key = term ? termSortKey(term) : null;
+      const at = key ? snapshot.table.termKeys.indexOf(key) : -1;
+      if (key && at >= 1) {
+        const started = Date.now();
+        tables = calibrateRanges(snapshot.table, key, engineSettings(version.settings), {
+          maxStudents: RANGE_STUDENTS,
+        });
+        this.logger.log(
+          `Likely ranges for settings version ${version.version} from ${term} in ${Date.now() - started} ms.`,
+        );
+      }
+      snapshot.ranges.set(version.version, tables);
+    }
+    return tables;
   }
 }

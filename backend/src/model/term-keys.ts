@@ -10,3 +10,10 @@ export function termSortKey(term: string): string {
   if (!match) throw new Error(`'${term}' is not a term of the form YYYY-XX (WI, SP, SU or FA).`);
   return `${match[1]}-${TERM_SEASONS.indexOf(match[2] as TermSeason) + 1}`;
 }
+
+/** The term of an engine key (the inverse of termSortKey): "2026-2" is 2026-SP. */
+export function termOfSortKey(key: string): string {
+  const match = /^(\d{4})-(\d)$/.exec(key);
+  const season = match ? TERM_SEASONS[Number(match[2]) - 1] : undefined;
+  return match && season ? `${match[1]}-${season}` : key;
+}

@@ -4,7 +4,7 @@ import { DEFAULT_SCALE_MODEL, GradeScaleModel } from '../grade-scale/grade-scale
 import { parsePrerequisites, type PrerequisiteNode } from '../imports/validation/prerequisites';
 import type { CatalogueEntry } from '../model/model-snapshot';
 import { passedCourses, passes, passRule, type Attempt } from './attempts';
-import { overallBasis } from './electives.service';
+import { likenessShares, overallBasis } from './electives.service';
 import { ineligibleReasons, unmetPrerequisites } from './eligibility';
 import { nearestLetter } from './grade-letters';
 import { standing } from './standing';
@@ -161,5 +161,21 @@ describe('the basis of an elective', () => {
     expect(overallBasis(['neighbours', 'none'])).toBe('neighbours');
     expect(overallBasis(['neighbours', 'baseline'])).toBe('baseline');
     expect(overallBasis(['none', 'none'])).toBe('none');
+  });
+});
+
+describe('shares of the likeness in the explanation', () => {
+  it('are shares of the positive part: they never pass 100 % and what pulled it down is said', () => {
+    const { top, against } = likenessShares([
+      { course: 'A', contribution: 3 },
+      { course: 'B', contribution: 1 },
+      { course: 'C', contribution: -2 },
+    ]);
+    expect(top).toEqual([
+      { course: 'A', share: 0.75 },
+      { course: 'B', share: 0.25 },
+    ]);
+    expect(against).toBe(0.5);
+    expect(likenessShares([{ course: 'C', contribution: -1 }])).toEqual({ top: [], against: 0 });
   });
 });

@@ -4,17 +4,22 @@ import type {
   ElectivesResponse,
   EstimateBasis,
   GradeScaleLetter,
+  LikelyRange,
   ModelSettings,
   SignalExplanation,
 } from '@kinpath/contracts';
 import { normalizeCourseCode } from '@kinpath/contracts';
 import {
-  CONFIDENCE_DESCRIPTION,
+  applyRanges,
+  confidenceOfWidth,
   explain,
+  likelyRange,
   OUTCOME_DISCLOSURE_MIN,
   predictStudent,
+  RANGE_CONFIDENCE_DESCRIPTION,
   type CoursePrediction,
   type Signal,
+  type SignalPrediction,
 } from '@kinpath/engine';
 import { ConflictException, Injectable, NotFoundException } from '@nestjs/common';
 import { AuditService } from '../audit/audit.service';
@@ -38,12 +43,31 @@ export function overallBasis(bases: EstimateBasis[]): EstimateBasis {
   return shown.every((b) => b === 'neighbours') ? 'neighbours' : 'baseline';
 }
 
+const SOURCE_WORDS: Record<ModelSettings['gradeSimilarity'], string> = {
+  grade: 'grades',
+  satisfaction: 'satisfaction answers',
+  both: 'grades and satisfaction answers (the two likenesses averaged)',
+  enrolment: 'which courses they took (withdrawals included)',
+  'satisfaction+enrolment':
+    'satisfaction answers and which courses they took (the two likenesses averaged)',
+};
+
 /** What an estimate rests on, for the explanation panel, in the settings' own terms. */
 export function methodDescription(settings: ModelSettings): ElectiveExplanation['method'] {
+  const centre =
+    settings.centring === 'baseline'
+      ? ' relative to the baseline (the overall average adjusted for the course and the student)'
+      : settings.centring === 'studentMean'
+        ? " centred on each student's own average"
+        : '';
   const measure =
     settings.similarity === 'cosine'
-      ? `Cosine similarity of grades${settings.center ? " centred on each student's own average" : ''}`
-      : "Pearson correlation of grades over shared courses, centred on each student's own average";
+      ? `Cosine similarity of results${centre}`
+      : "Pearson correlation of results over shared courses, centred on each student's own average";
+  const sources =
+    settings.gradeSimilarity === settings.satisfactionSimilarity
+      ? `, from ${SOURCE_WORDS[settings.gradeSimilarity]} for both estimates`
+      : `; kin for the grade are found by ${SOURCE_WORDS[settings.gradeSimilarity]}, for satisfaction by ${SOURCE_WORDS[settings.satisfactionSimilarity]}`;
   const iuf = settings.iuf
     ? ', with inverse user frequency so that courses nearly everyone takes count for little (Breese, Heckerman & Kadie, 1998)'
     : '';
@@ -51,13 +75,65 @@ export function methodDescription(settings: ModelSettings): ElectiveExplanation[
     settings.significance > 0
       ? `; similarities resting on fewer than ${settings.significance} shared courses are scaled down (Herlocker et al., 1999)`
       : '';
+  const shrinkage =
+    settings.shrinkage > 0
+      ? `; each similarity is shrunk by n / (n + ${settings.shrinkage}) for n shared courses (Koren, 2010)`
+      : '';
+  const around =
+    settings.centring === 'baseline'
+      ? 'how each did in it compared with their own baseline, added to this student’s baseline'
+      : 'how each did in it relative to their own average';
   return {
-    name: 'User-based collaborative filtering with mean-centred weighted prediction (Resnick et al., 1994)',
-    similarity: `${measure}${iuf}${significance}.`,
+    name:
+      settings.centring === 'baseline'
+        ? 'User-based collaborative filtering around a baseline predictor (Koren, 2010; Resnick et al., 1994)'
+        : 'User-based collaborative filtering with mean-centred weighted prediction (Resnick et al., 1994)',
+    similarity: `${measure}${sources}${iuf}${significance}${shrinkage}.`,
     description:
-      `Kinpath looks for past students whose grades in the courses they shared with this student followed a similar pattern (their kin), takes up to ${settings.k} of the most similar who took this course, and combines how each did in it relative to their own average, the more similar counting more. ` +
+      `Kinpath looks for past students whose results in the courses they shared with this student followed a similar pattern (their kin), takes up to ${settings.k} of the most similar who took this course, and combines ${around}, the more similar counting more. ` +
       `With fewer than ${settings.minNeighbours} kin it uses the baseline instead: the course's overall results adjusted for this student's record.`,
   };
+}
+
+/** A likely range with labels: grade letters for grades, one decimal for satisfaction. */
+export function rangeOut(
+  range: { low: number; high: number } | null | undefined,
+  signal: Signal,
+  letters: readonly GradeScaleLetter[],
+): LikelyRange | null {
+  if (!range) return null;
+  const label = (v: number) =>
+    signal === 'grade' ? (nearestLetter(v, letters) ?? v.toFixed(1)) : v.toFixed(1);
+  return { ...range, lowLabel: label(range.low), highLabel: label(range.high) };
+}
+
+/**
+ * Shares of the positive part of the kin's likeness (they add up to 1 over every course that
+ * made the kin alike), the strongest five, and what the courses that pulled it down took
+ * away as a share of that positive part.
+ */
+export function likenessShares(contributions: { course: string; contribution: number }[]): {
+  top: { course: string; share: number }[];
+  against: number;
+} {
+  let positive = 0;
+  let negative = 0;
+  for (const c of contributions) {
+    if (c.contribution > 0) positive += c.contribution;
+    else negative -= c.contribution;
+  }
+  if (positive <= 0) return { top: [], against: 0 };
+  return {
+    top: contributions
+      .filter((c) => c.contribution > 0)
+      .slice(0, 5)
+      .map((c) => ({ course: c.course, share: c.contribution / positive })),
+    against: negative / positive,
+  };
+}
+
+function strengthOf(p: SignalPrediction): number {
+  return p.basis === 'neighbours' ? (p.strength ?? 0) : 0;
 }
 
 /**
@@ -123,11 +199,15 @@ export class ElectivesService {
         : snapshot.electives.filter((c) => offered.has(c.courseCode));
     const { rule, letters } = this.scaleOf(snapshot);
     const passed = passedCourses(attempts, rule);
-    const prediction = predictStudent(
+    const prediction = applyRanges(
       snapshot.model,
-      student.pseudonym,
-      courses.map((c) => c.courseCode),
-      engineSettings(version.settings),
+      predictStudent(
+        snapshot.model,
+        student.pseudonym,
+        courses.map((c) => c.courseCode),
+        engineSettings(version.settings),
+      ),
+      this.model.ranges(snapshot, version),
     );
     const electives = courses.map((course, i) =>
       this.estimate(
@@ -142,7 +222,7 @@ export class ElectivesService {
     return {
       term,
       settingsVersion: version.version,
-      confidenceRule: CONFIDENCE_DESCRIPTION,
+      confidenceRule: RANGE_CONFIDENCE_DESCRIPTION,
       modelBuiltAt: snapshot.builtAt.toISOString(),
       electives,
     };
@@ -156,9 +236,19 @@ export class ElectivesService {
     if (!course) throw new NotFoundException('This course is not in the catalogue.');
     const settings = engineSettings(version.settings);
     const { letters } = this.scaleOf(snapshot);
+    const tables = this.model.ranges(snapshot, version);
+    const a = snapshot.model.studentIndex.get(student.pseudonym) ?? -1;
     const signal = (s: Signal): SignalExplanation => {
-      const e = explain(snapshot.model, student.pseudonym, course.courseCode, settings, s, 5);
+      const e = explain(snapshot.model, student.pseudonym, course.courseCode, settings, s);
       const who = s === 'grade' ? 'grades' : 'answers';
+      const d = snapshot.model.signals[s];
+      const strength =
+        e.basis === 'neighbours' ? e.kin.reduce((t, k) => t + Math.abs(k.similarity), 0) : 0;
+      const range =
+        e.value === null
+          ? null
+          : likelyRange(tables[s], e.value, a >= 0 ? d.rowPtr[a + 1] - d.rowPtr[a] : 0, strength);
+      const shares = likenessShares(e.sharedCourses);
       // e.kin names the other students: it stays here, only counts and ranges leave.
       return {
         value: e.value,
@@ -180,11 +270,23 @@ export class ElectivesService {
           : e.neighbours === 0
             ? 'No similar past students took this course, so there are no results to show.'
             : `Only ${e.neighbours} similar past ${e.neighbours === 1 ? 'student' : 'students'} contributed; their results are shown from ${OUTCOME_DISCLOSURE_MIN} on, so that no one's ${who} can be inferred.`,
-        sharedCourses: e.sharedCourses.map((c) => ({
+        sharedCourses: shares.top.map((c) => ({
           courseCode: c.course,
           title: snapshot.courses.get(c.course)?.title ?? c.course,
-          contribution: c.contribution,
+          contribution: c.share,
         })),
+        againstShare: shares.against,
+        kinStrength: strength,
+        likelyRange: rangeOut(range, s, letters),
+        confidence: range
+          ? confidenceOfWidth(
+              range.high - range.low,
+              snapshot.model.scales[s] ?? {
+                min: s === 'grade' ? 0 : 1,
+                max: s === 'grade' ? 4 : 5,
+              },
+            )
+          : 'low',
       };
     };
     return {
@@ -224,6 +326,11 @@ export class ElectivesService {
       basis: overallBasis([p.grade.basis, p.satisfaction.basis]),
       bases: { grade: p.grade.basis, satisfaction: p.satisfaction.basis },
       neighbours: { grade: p.grade.neighbours, satisfaction: p.satisfaction.neighbours },
+      kinStrength: { grade: strengthOf(p.grade), satisfaction: strengthOf(p.satisfaction) },
+      likelyRange: {
+        grade: rangeOut(p.grade.range, 'grade', letters),
+        satisfaction: rangeOut(p.satisfaction.range, 'satisfaction', letters),
+      },
     };
   }
 

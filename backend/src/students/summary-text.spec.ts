@@ -20,6 +20,11 @@ const base: ElectiveEstimate = {
   basis: 'neighbours',
   bases: { grade: 'neighbours', satisfaction: 'neighbours' },
   neighbours: { grade: 30, satisfaction: 28 },
+  kinStrength: { grade: 9.2, satisfaction: 7.5 },
+  likelyRange: {
+    grade: { low: 2.8, high: 3.7, lowLabel: 'B-', highLabel: 'A-' },
+    satisfaction: { low: 2.9, high: 4.6, lowLabel: '2.9', highLabel: '4.6' },
+  },
 };
 
 describe('the advising summary e-mail', () => {
@@ -43,6 +48,8 @@ describe('the advising summary e-mail', () => {
         basis: 'baseline',
         bases: { grade: 'baseline', satisfaction: 'none' },
         neighbours: { grade: 2, satisfaction: 0 },
+        kinStrength: { grade: 0, satisfaction: 0 },
+        likelyRange: { grade: null, satisfaction: null },
         eligible: false,
         ineligibleReasons: [
           { code: 'prerequisite_not_passed', message: 'Prerequisite not passed: MUS 2210.' },
@@ -54,10 +61,10 @@ describe('the advising summary e-mail', () => {
   it('gives each estimate with its kin count, and says when the baseline serves instead', () => {
     expect(mail.subject).toBe('Your elective shortlist for 2026-FA');
     expect(mail.text).toContain(
-      'Expected grade: about B+ (3.28 grade points), based on 30 similar past students.',
+      'Expected grade: about B+ (3.28 grade points), likely B- to A-, based on 30 similar past students.',
     );
     expect(mail.text).toContain(
-      'Expected satisfaction: 3.7 out of 5, based on 28 similar past students.',
+      'Expected satisfaction: 3.7 out of 5, likely 2.9 to 4.6, based on 28 similar past students.',
     );
     expect(mail.text).toContain('Fit: 75 out of 100 (confidence: medium).');
     expect(mail.text).toContain(

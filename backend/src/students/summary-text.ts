@@ -1,4 +1,4 @@
-import type { ElectiveEstimate } from '@kinpath/contracts';
+import type { ElectiveEstimate, LikelyRange } from '@kinpath/contracts';
 import { ESTIMATE_CAUTION_TITLE, ESTIMATE_CAUTIONS } from '@kinpath/contracts';
 
 export interface SummaryInput {
@@ -23,6 +23,13 @@ function kin(n: number): string {
 export function electiveLines(e: ElectiveEstimate): string[] {
   const credits = e.credits === null ? '' : `, ${e.credits} credits`;
   const lines = [`${e.courseCode} ${e.title} (${e.department}${credits})`];
+  // The 80 % likely range, when the last completed term gave one.
+  const likely = (r: LikelyRange | null) =>
+    r
+      ? r.lowLabel === r.highLabel
+        ? `, likely ${r.lowLabel}`
+        : `, likely ${r.lowLabel} to ${r.highLabel}`
+      : '';
   const basis = (b: ElectiveEstimate['basis'], n: number) =>
     b === 'neighbours'
       ? `based on ${kin(n)}`
@@ -31,14 +38,14 @@ export function electiveLines(e: ElectiveEstimate): string[] {
     lines.push('Expected grade: no estimate, as there are no past results for this course.');
   } else {
     lines.push(
-      `Expected grade: about ${e.predictedGradeLetter} (${e.predictedGrade.toFixed(2)} grade points), ${basis(e.bases.grade, e.neighbours.grade)}.`,
+      `Expected grade: about ${e.predictedGradeLetter} (${e.predictedGrade.toFixed(2)} grade points)${likely(e.likelyRange.grade)}, ${basis(e.bases.grade, e.neighbours.grade)}.`,
     );
   }
   if (e.predictedSatisfaction === null) {
     lines.push('Expected satisfaction: no estimate, as there are no past answers for this course.');
   } else {
     lines.push(
-      `Expected satisfaction: ${e.predictedSatisfaction.toFixed(1)} out of 5, ${basis(e.bases.satisfaction, e.neighbours.satisfaction)}.`,
+      `Expected satisfaction: ${e.predictedSatisfaction.toFixed(1)} out of 5${likely(e.likelyRange.satisfaction)}, ${basis(e.bases.satisfaction, e.neighbours.satisfaction)}.`,
     );
   }
   if (e.fit !== null) {

@@ -13,11 +13,17 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { loadGradeScale } from '../../src/grade-scale/grade-scale.model';
 import { termSortKey } from '../../src/model/term-keys';
 import { api, bearer, DEMO_USERS, signIn, withDatabase } from '../support/api';
+import { engineCliArgs } from '../support/engine-cli-args';
 
 /** The engine's command line, built by `npm run build`. */
 const ENGINE_CLI = resolve(__dirname, '..', '..', '..', 'packages', 'engine', 'dist', 'cli.js');
 
-const VARIANT: ModelSettings = { ...DEFAULT_MODEL_SETTINGS, similarity: 'pearson', k: 20 };
+const VARIANT: ModelSettings = {
+  ...DEFAULT_MODEL_SETTINGS,
+  similarity: 'pearson',
+  centring: 'studentMean',
+  k: 20,
+};
 
 let registrar: string;
 let backtest: EvaluationDetail;
@@ -155,19 +161,7 @@ describe('backtests through the API', () => {
           signal,
           '--scale',
           scaleArg,
-          '--similarity',
-          settings.similarity,
-          '--iuf',
-          settings.iuf ? 'on' : 'off',
-          '--center',
-          settings.center ? 'on' : 'off',
-          '--k',
-          String(settings.k),
-          '--min-neighbours',
-          String(settings.minNeighbours),
-          `--min-similarity=${settings.minSimilarity}`,
-          '--significance',
-          String(settings.significance),
+          ...engineCliArgs(settings, signal as 'grade' | 'satisfaction'),
         ],
         { encoding: 'utf8', timeout: 120_000 },
       );

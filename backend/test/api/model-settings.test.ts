@@ -1,4 +1,5 @@
 import type { ModelSettingsResponse, ModelSettingsVersion } from '@kinpath/contracts';
+import { DEFAULT_MODEL_SETTINGS, MEAN_CENTRED_MODEL_SETTINGS } from '@kinpath/contracts';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { api, bearer, DEMO_USERS, signIn, withDatabase } from '../support/api';
 import { activeDemoStudents, lookUp } from '../support/advising';
@@ -42,37 +43,43 @@ describe('model settings', () => {
       expect(body.version).toBe(start.version);
       expect(Object.keys(body.settings).sort()).toEqual([
         'alpha',
-        'center',
+        'centring',
+        'gradeDampingCourse',
+        'gradeDampingStudent',
+        'gradeSimilarity',
         'iuf',
         'k',
         'minNeighbours',
         'minSimilarity',
+        'satisfactionDampingCourse',
+        'satisfactionDampingStudent',
+        'satisfactionSimilarity',
+        'shrinkage',
         'significance',
         'similarity',
+        'tieDigits',
       ]);
     }
     expect((await api().get('/api/model/settings')).status).toBe(401);
   });
 
-  it('start from the method defaults as version 1', async () => {
+  it('start from the original method as version 1, then the new defaults as version 2', async () => {
     const versions = await api()
       .get('/api/model/settings/versions')
       .set(...bearer(registrar));
     expect(versions.status).toBe(200);
-    const first = (versions.body as ModelSettingsVersion[]).at(-1);
-    expect(first).toMatchObject({
+    const list = versions.body as ModelSettingsVersion[];
+    // Version 1 keeps its meaning: the original method's values written out.
+    expect(list.at(-1)).toMatchObject({
       version: 1,
       createdBy: null,
-      settings: {
-        similarity: 'cosine',
-        iuf: true,
-        center: true,
-        k: 30,
-        minNeighbours: 5,
-        minSimilarity: 0,
-        significance: 0,
-        alpha: 0.5,
-      },
+      settings: MEAN_CENTRED_MODEL_SETTINGS,
+    });
+    expect(list.at(-2)).toMatchObject({
+      version: 2,
+      createdBy: null,
+      settings: DEFAULT_MODEL_SETTINGS,
+      note: 'The baseline-centred estimator of the method description.',
     });
   });
 
@@ -80,7 +87,11 @@ describe('model settings', () => {
     const res = await put(registrar, {
       similarity: 'jaccard',
       iuf: 'yes',
-      center: true,
+      centring: 'median',
+      gradeSimilarity: 'height',
+      gradeDampingStudent: -1,
+      shrinkage: 1001,
+      tieDigits: 1.5,
       k: 501,
       minNeighbours: 0,
       minSimilarity: -2,
@@ -92,6 +103,11 @@ describe('model settings', () => {
       expect.arrayContaining([
         'similarity must be cosine or pearson.',
         'iuf must be true or false.',
+        'centring must be one of baseline, studentMean, none.',
+        'gradeSimilarity must be one of grade, satisfaction, both, enrolment, satisfaction+enrolment.',
+        'gradeDampingStudent must be from 0 to 1000.',
+        'shrinkage must be from 0 (off) to 1000.',
+        'tieDigits must be a whole number.',
         'k must be at most 500.',
         'minNeighbours must be at least 1.',
         'minSimilarity must be between -1 and 1.',
@@ -134,6 +150,7 @@ describe('model settings', () => {
     const changed = await put(registrar, {
       ...start.settings,
       similarity: 'pearson',
+      centring: 'studentMean',
       k: 40,
       significance: 10,
       note: 'Pearson for comparison',
@@ -145,7 +162,13 @@ describe('model settings', () => {
       createdBy: DEMO_USERS.registrar,
       note: 'Pearson for comparison',
       restoredFrom: null,
-      settings: { ...start.settings, similarity: 'pearson', k: 40, significance: 10 },
+      settings: {
+        ...start.settings,
+        similarity: 'pearson',
+        centring: 'studentMean',
+        k: 40,
+        significance: 10,
+      },
     });
     expect(await read(advisor)).toEqual(next);
 

@@ -25,6 +25,7 @@ import {
   REPO_ROOT,
   waitForModel,
 } from '../support/advising';
+import { engineCliArgs } from '../support/engine-cli-args';
 
 const REF = /^[A-Za-z0-9_-]{16}$/;
 const HEX64 = /[0-9a-f]{64}/;
@@ -228,7 +229,17 @@ describe('the electives', () => {
     ]);
     expect(body.term).toBe(terms.body.next);
     expect(body.settingsVersion).toBe((settings.body as ModelSettingsResponse).version);
-    expect(body.confidenceRule).toMatch(/High: at least 20/);
+    expect(body.confidenceRule).toMatch(/high when the 80 % range spans at most 20 %/);
+    // Estimates from kin carry their kin strength and an 80 % likely range around the value.
+    const fromKin = body.electives.filter((e) => e.bases.grade === 'neighbours');
+    expect(fromKin.length).toBeGreaterThan(0);
+    for (const e of fromKin) {
+      expect(e.kinStrength.grade).toBeGreaterThan(0);
+      const r = e.likelyRange.grade;
+      expect(r, e.courseCode).not.toBeNull();
+      expect(r!.low).toBeLessThanOrEqual(e.predictedGrade!);
+      expect(r!.high).toBeGreaterThanOrEqual(e.predictedGrade!);
+    }
     const offered = await withDatabase(async (db) => {
       const { rows } = await db.query<{ course_code: string }>(
         `SELECT o.course_code FROM offerings o JOIN courses c USING (course_code)
@@ -345,20 +356,7 @@ describe('the electives', () => {
         'grade',
         '--scale',
         `${scale.body.minPoints}:${scale.body.maxPoints}`,
-        '--similarity',
-        settings.similarity,
-        '--iuf',
-        settings.iuf ? 'on' : 'off',
-        '--center',
-        settings.center ? 'on' : 'off',
-        '--k',
-        String(settings.k),
-        '--min-neighbours',
-        String(settings.minNeighbours),
-        '--min-similarity',
-        String(settings.minSimilarity),
-        '--significance',
-        String(settings.significance),
+        ...engineCliArgs(settings, 'grade'),
         ...body.electives.flatMap((e) => ['--course', e.courseCode]),
       ];
       const out = JSON.parse(execFileSync(process.execPath, args, { encoding: 'utf8' })) as {

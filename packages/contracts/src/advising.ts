@@ -63,6 +63,18 @@ export interface IneligibleReason {
   message: string;
 }
 
+/**
+ * An 80 % likely range: past estimates like this one (similar record count and kin
+ * strength) missed the outcome by this much or less four times in five.
+ */
+export interface LikelyRange {
+  low: number;
+  high: number;
+  /** Grade letters for grades ("B-"), the value itself for satisfaction ("3.2"). */
+  lowLabel: string;
+  highLabel: string;
+}
+
 /** One elective with its estimates for one student. */
 export interface ElectiveEstimate {
   courseCode: string;
@@ -93,6 +105,13 @@ export interface ElectiveEstimate {
   bases: { grade: EstimateBasis; satisfaction: EstimateBasis };
   /** Kin counts (contributing neighbours) per signal. */
   neighbours: { grade: number; satisfaction: number };
+  /**
+   * Kin strength per signal: the kin's summed similarity (0 on the baseline). Two estimates
+   * with 30 kin each differ here when one set of kin is much more alike.
+   */
+  kinStrength: { grade: number; satisfaction: number };
+  /** Likely ranges per signal; null when there is no estimate or no range yet. */
+  likelyRange: { grade: LikelyRange | null; satisfaction: LikelyRange | null };
 }
 
 /**
@@ -121,7 +140,11 @@ export interface OutcomeCount {
 export interface SharedCourse {
   courseCode: string;
   title: string;
-  /** Summed share of the kin's similarities this course carries; larger drove the match more. */
+  /**
+   * Share of the positive part of the kin's likeness this course built up (0-1): the shares
+   * of all courses that made the kin alike add up to 1. Courses where the kin differed from
+   * the student pulled the likeness down instead; see `SignalExplanation.againstShare`.
+   */
   contribution: number;
 }
 
@@ -138,8 +161,17 @@ export interface SignalExplanation {
   outcomes: OutcomeCount[] | null;
   /** Why the outcomes are not shown, when they are not. */
   outcomesSuppressed: string | null;
-  /** The shared courses that made these students alike, strongest first. */
+  /** The shared courses that made these students alike, strongest first (at most 5). */
   sharedCourses: SharedCourse[];
+  /**
+   * How much courses where the kin differed took away, as a share of the positive part
+   * (0 when none did): the likeness is (1 - againstShare) of what the listed shares add to.
+   */
+  againstShare: number;
+  /** Kin strength: the kin's summed similarity. */
+  kinStrength: number;
+  likelyRange: LikelyRange | null;
+  confidence: EstimateConfidence;
 }
 
 /** `GET /api/students/:ref/electives/:courseCode/explanation`. */

@@ -56,6 +56,29 @@ export interface EvaluationResult {
   configuration: number | null;
   /** The baseline's key (baselines only). */
   baseline: EvaluationBaselineKey | null;
+  /**
+   * Configurations, overall: the MAE margin over the best baseline (positive: better) with
+   * a 95 % interval from resampling students; null for baselines and per department.
+   */
+  margin: EvaluationMargin | null;
+  /** Configurations, overall: how the 80 % likely ranges did; null otherwise. */
+  ranges: EvaluationRanges | null;
+}
+
+export interface EvaluationMargin {
+  baseline: EvaluationBaselineKey;
+  mae: number;
+  low: number;
+  high: number;
+}
+
+export interface EvaluationRanges {
+  /** The term before the holdout, whose residuals made the ranges. */
+  calibrationTerm: string;
+  /** Share of held-out outcomes inside their likely range. */
+  coverage: number | null;
+  meanWidth: number | null;
+  byConfidence: Record<'low' | 'medium' | 'high', { n: number; coverage: number | null }>;
 }
 
 export interface EvaluationDepartmentResult extends EvaluationResult {

@@ -1,4 +1,4 @@
-import { Model, similarityView } from './model';
+import { componentsOf, Model, modelFor, similarityView } from './model';
 import {
   BASIS_NAMES,
   BASIS_NEIGHBOURS,
@@ -6,12 +6,18 @@ import {
   DEFAULT_SCALES,
   fitOf,
   Scorer,
+  sourceFor,
+  targetSignal,
   untakenCourses,
 } from './score';
 import {
   Basis,
+  CENTRINGS,
   CoursePrediction,
   DEFAULT_SETTINGS,
+  MEAN_CENTRED_SETTINGS,
+  SettingsInput,
+  SIMILARITY_SOURCES,
   Kin,
   Settings,
   Signal,
@@ -20,20 +26,64 @@ import {
   StudentPrediction,
 } from './types';
 
-/** Defaults filled in and every field checked; throws on a setting out of range. */
-export function resolveSettings(partial: Partial<Settings> = {}): Settings {
-  const s: Settings = { ...DEFAULT_SETTINGS, ...partial };
+/**
+ * Defaults filled in and every field checked; throws on a setting out of range. The original
+ * method's `similaritySignal` (one signal's similarity for both) and `center` are understood:
+ * given without the newer fields, they select the original method (MEAN_CENTRED_SETTINGS).
+ */
+export function resolveSettings(partial: SettingsInput = {}): Settings {
+  const { similaritySignal, center, ...rest } = partial;
+  const legacy = similaritySignal !== undefined || center !== undefined;
+  const base = legacy ? MEAN_CENTRED_SETTINGS : DEFAULT_SETTINGS;
+  const s: Settings = {
+    ...base,
+    ...(similaritySignal !== undefined
+      ? { gradeSimilarity: similaritySignal, satisfactionSimilarity: similaritySignal }
+      : {}),
+    ...(center !== undefined ? { centring: center ? 'studentMean' : 'none' } : {}),
+    ...rest,
+    damping: {
+      grade: {
+        student: rest.damping?.grade?.student ?? base.damping.grade.student,
+        course: rest.damping?.grade?.course ?? base.damping.grade.course,
+      },
+      satisfaction: {
+        student: rest.damping?.satisfaction?.student ?? base.damping.satisfaction.student,
+        course: rest.damping?.satisfaction?.course ?? base.damping.satisfaction.course,
+      },
+    },
+  };
   const bad = (what: string): never => {
     throw new Error(`setting ${what} is out of range`);
   };
-  if (!SIGNALS.includes(s.similaritySignal)) bad(`similaritySignal ${s.similaritySignal}`);
+  if (similaritySignal !== undefined && !SIGNALS.includes(similaritySignal)) {
+    bad(`similaritySignal ${similaritySignal}`);
+  }
+  if (!SIMILARITY_SOURCES.includes(s.gradeSimilarity)) bad(`gradeSimilarity ${s.gradeSimilarity}`);
+  if (!SIMILARITY_SOURCES.includes(s.satisfactionSimilarity)) {
+    bad(`satisfactionSimilarity ${s.satisfactionSimilarity}`);
+  }
   if (s.similarity !== 'cosine' && s.similarity !== 'pearson') bad(`similarity ${s.similarity}`);
+  if (!CENTRINGS.includes(s.centring)) bad(`centring ${s.centring}`);
+  if (s.similarity === 'pearson') {
+    // Pearson centres on each student's mean by definition (enrolment stays cosine).
+    if (s.centring !== 'studentMean') bad(`centring ${s.centring} with pearson`);
+  }
+  for (const sig of SIGNALS) {
+    const d = s.damping[sig];
+    if (!(d.student >= 0 && Number.isFinite(d.student))) bad(`${sig} damping ${d.student}`);
+    if (!(d.course >= 0 && Number.isFinite(d.course))) bad(`${sig} damping ${d.course}`);
+  }
   if (!Number.isInteger(s.k) || s.k < 0) bad(`k ${s.k}`);
   if (!Number.isInteger(s.minNeighbours) || s.minNeighbours < 0)
     bad(`minNeighbours ${s.minNeighbours}`);
   if (Number.isNaN(s.minSimilarity)) bad(`minSimilarity ${s.minSimilarity}`);
   if (!Number.isInteger(s.significance) || s.significance < 0)
     bad(`significance ${s.significance}`);
+  if (!(s.shrinkage >= 0 && Number.isFinite(s.shrinkage))) bad(`shrinkage ${s.shrinkage}`);
+  if (!Number.isInteger(s.tieDigits) || s.tieDigits < 0 || s.tieDigits > 17) {
+    bad(`tieDigits ${s.tieDigits}`);
+  }
   if (!(s.alpha >= 0 && s.alpha <= 1)) bad(`alpha ${s.alpha}`);
   return s;
 }
@@ -60,13 +110,15 @@ function studentIdx(model: Model, student: string): number {
 export function similarities(
   model: Model,
   student: string,
-  settings: Partial<Settings> = {},
+  settings: SettingsInput = {},
   limit = Infinity,
+  signal: Signal = 'grade',
 ): Kin[] {
   const st = resolveSettings(settings);
   const a = studentIdx(model, student);
   const ws = scorerFor(model).ws;
-  ws.compute(a, st, true);
+  ws.model = modelFor(model, st);
+  ws.computeSource(a, st, sourceFor(st, signal), true);
   const rank = model.studentRank;
   const ids: number[] = [];
   if (st.minSimilarity < 0) {
@@ -96,6 +148,7 @@ function signalPrediction(scorer: Scorer, s: Signal, t: number): SignalPredictio
     basis: BASIS_NAMES[o.basis[t]],
     spread: o.basis[t] === BASIS_NEIGHBOURS ? o.spread[t] : null,
     confidence: CONFIDENCE_NAMES[o.confidence[t]],
+    strength: o.strength[t],
   };
 }
 
@@ -110,13 +163,13 @@ export function predictStudent(
   model: Model,
   student: string,
   courses?: readonly string[],
-  settings: Partial<Settings> = {},
+  settings: SettingsInput = {},
 ): StudentPrediction {
   const st = resolveSettings(settings);
   const a = studentIdx(model, student);
   const targets = courses
     ? Int32Array.from(courses, (c) => model.courseIndex.get(c) ?? -1)
-    : untakenCourses(model, a, st.similaritySignal);
+    : untakenCourses(model, a, targetSignal(st));
   const scorer = scorerFor(model);
   scorer.score(a, targets, st, SIGNALS);
   const gs = model.scales.grade ?? DEFAULT_SCALES.grade;
@@ -158,7 +211,7 @@ export function predictSignal(
   student: string,
   signal: Signal,
   courses?: readonly string[],
-  settings: Partial<Settings> = {},
+  settings: SettingsInput = {},
 ): { course: string; value: number | null; neighbours: number; basis: Basis }[] {
   const st = resolveSettings(settings);
   const a = studentIdx(model, student);
@@ -196,8 +249,13 @@ export interface Explanation {
   spread: number | null;
   /** Kin's values in the course; null when fewer than 5 contributed. */
   outcomes: { value: number; count: number }[] | null;
-  /** Shared courses ranked by their summed share of the kin's similarities. */
+  /**
+   * Every shared course's signed contribution to the kin's similarities (summed over the
+   * kin), largest first; contributions can be negative and add up to similarityTotal.
+   */
   sharedCourses: { course: string; contribution: number }[];
+  /** The kin's summed w (kin strength when every w is positive). */
+  similarityTotal: number;
   /**
    * The neighbourhood itself, for audits and tests: weight = w / sum|w|. It names other
    * students, so it is not for display.
@@ -210,9 +268,8 @@ export function explain(
   model: Model,
   student: string,
   course: string,
-  settings: Partial<Settings> = {},
+  settings: SettingsInput = {},
   signal: Signal = 'grade',
-  topCourses = 5,
 ): Explanation {
   const st = resolveSettings(settings);
   const a = studentIdx(model, student);
@@ -222,7 +279,9 @@ export function explain(
   const o = scorer.out[signal];
   const n = o.kin[0];
   const isKin = o.basis[0] === BASIS_NEIGHBOURS;
-  const d = model.signals[signal];
+  // The model the estimate was scored on (its centres follow the settings' centring).
+  const m = scorer.model;
+  const d = m.signals[signal];
   const kin: Explanation['kin'] = [];
   const hood = n > 0 ? scorer.neighboursOf(signal, j, a, st).slice(0, n) : [];
   let den = 0;
@@ -233,7 +292,7 @@ export function explain(
       similarity: x.w,
       weight: den > 0 ? x.w / den : 1 / n,
       value: x.value,
-      deviation: x.value - d.mean[x.student],
+      deviation: x.value - d.mean[x.student] - d.courseShift[j],
     });
   }
   let outcomes: Explanation['outcomes'] = null;
@@ -261,75 +320,93 @@ export function explain(
     sharedCourses:
       a >= 0
         ? sharedCourseTerms(
-            model,
+            m,
             a,
             kin.map((x) => model.studentIndex.get(x.student) ?? -1),
             st,
-            topCourses,
+            signal,
           )
         : [],
+    similarityTotal: hood.reduce((t, x) => t + x.w, 0),
     kin,
   };
 }
 
 /**
- * Per-course terms of each similarity, summed over the kin. For one neighbour the terms add
- * up to w(a, i) (significance factor included).
+ * Per-course terms of one similarity (signed): each component's cosine terms, averaged over
+ * the source's components, times the significance and shrinkage factors. They add up to
+ * w(a, i) before rounding for ranking. `model` is the model the settings were scored on.
  */
 export function similarityTerms(
   model: Model,
   a: number,
   i: number,
   settings: Settings,
+  signal: Signal = 'grade',
 ): Map<number, number> {
-  const view = similarityView(model, settings);
-  const { data, f, rowX, norm } = view;
-  const { rowPtr, rowCourse } = data;
+  const comps = componentsOf(sourceFor(settings, signal));
   const terms = new Map<number, number>();
-  const pearson = settings.similarity === 'pearson';
-  let p = rowPtr[a];
-  let q = rowPtr[i];
-  let da = 0;
-  let di = 0;
-  let overlap = 0;
-  while (p < rowPtr[a + 1] && q < rowPtr[i + 1]) {
-    const ca = rowCourse[p];
-    const ci = rowCourse[q];
-    if (ca < ci) p++;
-    else if (ci < ca) q++;
-    else {
-      const fj = f[ca];
-      overlap++;
-      if (pearson) {
-        terms.set(ca, fj * rowX[p] * rowX[q]);
-        da += fj * rowX[p] * rowX[p];
-        di += fj * rowX[q] * rowX[q];
-      } else terms.set(ca, fj * rowX[p] * fj * rowX[q]);
-      p++;
-      q++;
+  let overlapMax = 0;
+  for (const comp of comps) {
+    const view = similarityView(model, comp, settings);
+    const { data, f, rowX, norm } = view;
+    const { rowPtr, rowCourse } = data;
+    const own = new Map<number, number>();
+    const pearson = settings.similarity === 'pearson' && comp !== 'enrolment';
+    let p = rowPtr[a];
+    let q = rowPtr[i];
+    let da = 0;
+    let di = 0;
+    let overlap = 0;
+    while (p < rowPtr[a + 1] && q < rowPtr[i + 1]) {
+      const ca = rowCourse[p];
+      const ci = rowCourse[q];
+      if (ca < ci) p++;
+      else if (ci < ca) q++;
+      else {
+        const fj = f[ca];
+        overlap++;
+        if (pearson) {
+          own.set(ca, fj * rowX[p] * rowX[q]);
+          da += fj * rowX[p] * rowX[p];
+          di += fj * rowX[q] * rowX[q];
+        } else own.set(ca, fj * rowX[p] * fj * rowX[q]);
+        p++;
+        q++;
+      }
     }
+    if (overlap > overlapMax) overlapMax = overlap;
+    const den = pearson ? Math.sqrt(da * di) : norm[a] * norm[i];
+    const scale = (den > 0 ? 1 / den : 0) / comps.length;
+    for (const [c, t] of own) terms.set(c, (terms.get(c) ?? 0) + t * scale);
   }
-  const den = pearson ? Math.sqrt(da * di) : norm[a] * norm[i];
   const g = settings.significance;
-  const factor = (den > 0 ? 1 / den : 0) * (g > 0 ? Math.min(overlap, g) / g : 1);
-  for (const [c, t] of terms) terms.set(c, t * factor);
+  const beta = settings.shrinkage;
+  const factor =
+    (g > 0 ? Math.min(overlapMax, g) / g : 1) * (beta > 0 ? overlapMax / (overlapMax + beta) : 1);
+  if (factor !== 1) for (const [c, t] of terms) terms.set(c, t * factor);
   return terms;
 }
 
+/**
+ * Every shared course's signed contribution to the kin's similarities, summed over the kin,
+ * largest first; the contributions add up to the kin's summed w.
+ */
 function sharedCourseTerms(
   model: Model,
   a: number,
   kin: number[],
   settings: Settings,
-  top: number,
+  signal: Signal,
 ): { course: string; contribution: number }[] {
   const sum = new Map<number, number>();
   for (const i of kin) {
-    for (const [c, t] of similarityTerms(model, a, i, settings)) sum.set(c, (sum.get(c) ?? 0) + t);
+    for (const [c, t] of similarityTerms(model, a, i, settings, signal)) {
+      sum.set(c, (sum.get(c) ?? 0) + t);
+    }
   }
   return [...sum]
-    .filter(([, t]) => t > 0)
+    .filter(([, t]) => t !== 0)
     .sort((x, y) => y[1] - x[1] || x[0] - y[0])
-    .slice(0, top)
     .map(([c, t]) => ({ course: model.courseKeys[c], contribution: t }));
 }

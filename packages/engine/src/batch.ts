@@ -11,6 +11,7 @@ import {
   fitScore,
   fitSource,
   Scorer,
+  targetSignal,
   untakenCourses,
 } from './score';
 import { Settings, Signal, SIGNALS, StudentPrediction } from './types';
@@ -23,6 +24,8 @@ export interface CompactSignal {
   basis: Uint8Array;
   /** 0 low, 1 medium, 2 high (CONFIDENCE_NAMES). */
   confidence: Uint8Array;
+  /** Kin strength (summed |w|), 0 on the baseline. */
+  strength: Float64Array;
 }
 
 /** One student's scores over many courses, as typed arrays (position t = course `courses[t]`). */
@@ -81,7 +84,7 @@ interface Job {
 }
 
 function targetsFor(model: Model, a: number, job: Job): Int32Array {
-  const sig = job.settings.similaritySignal;
+  const sig = targetSignal(job.settings);
   if (!job.courseIdx) return job.includeTaken ? allCourses(model) : untakenCourses(model, a, sig);
   if (job.includeTaken || a < 0) return job.courseIdx;
   const d = model.signals[sig];
@@ -119,6 +122,7 @@ export interface PackedChunk {
   kin: Int32Array[];
   basis: Uint8Array[];
   conf: Uint8Array[];
+  strength: Float64Array[];
   fit: Float64Array;
   fitConf: Uint8Array;
 }
@@ -150,6 +154,7 @@ export function scoreChunk(
     kin: Array.from({ length: ns }, () => new Int32Array(total)),
     basis: Array.from({ length: ns }, () => new Uint8Array(total)),
     conf: Array.from({ length: ns }, () => new Uint8Array(total)),
+    strength: Array.from({ length: ns }, () => new Float64Array(total)),
     fit: new Float64Array(total),
     fitConf: new Uint8Array(total),
   };
@@ -169,6 +174,7 @@ export function scoreChunk(
       chunk.kin[z].set(r.kin.subarray(0, t.length), o);
       chunk.basis[z].set(r.basis.subarray(0, t.length), o);
       chunk.conf[z].set(r.confidence.subarray(0, t.length), o);
+      chunk.strength[z].set(r.strength.subarray(0, t.length), o);
     }
     for (let p = 0; p < t.length; p++) {
       const g = gi >= 0 ? chunk.value[gi][o + p] : NaN;
@@ -189,7 +195,17 @@ export function scoreChunk(
 }
 
 function chunkBuffers(c: PackedChunk): ArrayBuffer[] {
-  const all = [c.offsets, c.courses, c.fit, c.fitConf, ...c.value, ...c.kin, ...c.basis, ...c.conf];
+  const all = [
+    c.offsets,
+    c.courses,
+    c.fit,
+    c.fitConf,
+    ...c.value,
+    ...c.kin,
+    ...c.basis,
+    ...c.conf,
+    ...c.strength,
+  ];
   return all.map((a) => a.buffer as ArrayBuffer);
 }
 
@@ -210,6 +226,7 @@ function unpack(
         kin: c.kin[z].subarray(lo, hi),
         basis: c.basis[z].subarray(lo, hi),
         confidence: c.conf[z].subarray(lo, hi),
+        strength: c.strength[z].subarray(lo, hi),
       };
     };
     emit({
@@ -234,6 +251,7 @@ export function toStudentPrediction(model: Model, s: StudentScores): StudentPred
         basis: 'none' as const,
         spread: null,
         confidence: 'low' as const,
+        strength: 0,
       };
     const v = c.value[t];
     return {
@@ -242,6 +260,7 @@ export function toStudentPrediction(model: Model, s: StudentScores): StudentPred
       basis: BASIS_NAMES[c.basis[t]],
       spread: null,
       confidence: CONFIDENCE_NAMES[c.confidence[t]],
+      strength: c.strength[t],
     };
   };
   const predictions = [];
@@ -323,8 +342,9 @@ export async function scoreBatch(
     return options.onStudent ? [] : collected;
   }
 
-  // Derived arrays are computed here once so the workers share them.
-  prepare(model, settings);
+  // Derived arrays (and the settings' model variant) are computed here once so the workers
+  // share them.
+  const prepared = prepare(model, settings);
   const path = options.workerPath ?? defaultWorkerPath();
   const workers: Worker[] = [];
   await new Promise<void>((resolve, reject) => {
@@ -348,7 +368,7 @@ export async function scoreBatch(
       w.postMessage({ first, count });
     };
     for (let x = 0; x < nWorkers; x++) {
-      const w = new Worker(path, { workerData: { model, students, job } });
+      const w = new Worker(path, { workerData: { model: prepared, students, job } });
       workers.push(w);
       w.on('message', (msg: { chunk?: PackedChunk; error?: string }) => {
         if (finished) return;

@@ -4,14 +4,17 @@ import { parseArgs } from 'node:util';
 import { predictSignal, resolveSettings, similarities } from './api';
 import { evaluate, EvaluationPlan } from './evaluate';
 import { buildTable, modelFromTable, RecordError, RecordTable } from './model';
-import { Scale, Settings, Signal } from './types';
+import { Scale, Settings, SettingsInput, Signal } from './types';
 
 const USAGE = `usage: kinpath-engine <neighbours|predict|evaluate> --records FILE [options]
   neighbours --student ID... [--students-file F] [--limit 50]
   predict    (--student ID... | --students-file F) [--course C...] [--courses-file F]
   evaluate   (--holdout-term T | --folds K [--seed S])
-  options: --signal grade|satisfaction  --similarity cosine|pearson  --iuf on|off  --center on|off
+  options: --signal grade|satisfaction  --similarity cosine|pearson  --iuf on|off
+           --centring baseline|studentMean|none  --source grade|satisfaction|both|enrolment|satisfaction+enrolment
+           --damping-student X  --damping-course X  --shrinkage X  --tie-digits N
            --k N  --min-neighbours N  --min-similarity X  --significance N  --scale MIN:MAX
+           --center on|off: the original method (mean-centred, one signal's similarity, no shrinkage)
   Records CSV header: student,course,term,grade[,satisfaction]. Output: JSON Lines.`;
 
 /** A problem with the command line or its files: one line on stderr, exit code 2. */
@@ -181,6 +184,12 @@ function main(argv: string[]): void {
         similarity: { type: 'string' },
         iuf: { type: 'string' },
         center: { type: 'string' },
+        centring: { type: 'string' },
+        source: { type: 'string' },
+        'damping-student': { type: 'string' },
+        'damping-course': { type: 'string' },
+        shrinkage: { type: 'string' },
+        'tie-digits': { type: 'string' },
         k: { type: 'string' },
         'min-neighbours': { type: 'string' },
         'min-similarity': { type: 'string' },
@@ -220,12 +229,39 @@ function main(argv: string[]): void {
     }
     scales[signal] = { min: Number(m[1]), max: Number(m[2]) };
   }
-  const partial: Partial<Settings> = { similaritySignal: signal };
+  const center = onOff(o.center, 'center');
+  // --center selects the original method, where the predicted signal's similarity is its own.
+  const partial: SettingsInput = center !== undefined ? { similaritySignal: signal, center } : {};
+  if (o.centring !== undefined) partial.centring = o.centring as Settings['centring'];
+  if (o.source !== undefined) {
+    const src = o.source as Settings['gradeSimilarity'];
+    if (signal === 'grade') partial.gradeSimilarity = src;
+    else partial.satisfactionSimilarity = src;
+  }
+  const num = (name: 'damping-student' | 'damping-course' | 'shrinkage'): number | undefined => {
+    const v = o[name];
+    if (v === undefined) return undefined;
+    const x = Number(v);
+    if (v.trim() === '' || !Number.isFinite(x) || x < 0) {
+      throw new UsageError(`--${name} must be a number of at least 0, got ${JSON.stringify(v)}`);
+    }
+    return x;
+  };
+  const ds = num('damping-student');
+  const dc = num('damping-course');
+  if (ds !== undefined || dc !== undefined) {
+    partial.damping = {
+      ...(partial.damping ?? {}),
+      [signal]: { student: ds, course: dc },
+    } as unknown as Settings['damping'];
+  }
+  const shrink = num('shrinkage');
+  if (shrink !== undefined) partial.shrinkage = shrink;
+  const td = int(o['tie-digits'], 'tie-digits');
+  if (td !== undefined) partial.tieDigits = td;
   if (o.similarity) partial.similarity = o.similarity as Settings['similarity'];
   const iuf = onOff(o.iuf, 'iuf');
   if (iuf !== undefined) partial.iuf = iuf;
-  const center = onOff(o.center, 'center');
-  if (center !== undefined) partial.center = center;
   const k = int(o.k, 'k');
   if (k !== undefined) partial.k = k;
   const mn = int(o['min-neighbours'], 'min-neighbours');
@@ -296,7 +332,7 @@ function main(argv: string[]): void {
   const model = modelFromTable(table);
   for (const student of students) {
     if (command === 'neighbours') {
-      const kin = similarities(model, student, settings, limit);
+      const kin = similarities(model, student, settings, limit, signal);
       write({ student, neighbours: kin });
     } else {
       const predictions = predictSignal(

@@ -1,7 +1,17 @@
 import { resolveSettings, scorerFor } from './api';
 import { buildTable, Model, modelFromTable, RecordTable } from './model';
-import { baselineValue, BASIS_NEIGHBOURS } from './score';
-import { BuildOptions, RecordsInput, Scale, Settings, Signal, SIGNALS } from './types';
+import { likelyRange, RangeTable, rangeTable, residualCells } from './ranges';
+import { baselineValue, BASIS_NEIGHBOURS, DEFAULT_SCALES } from './score';
+import {
+  BuildOptions,
+  Confidence,
+  RecordsInput,
+  Scale,
+  Settings,
+  SettingsInput,
+  Signal,
+  SIGNALS,
+} from './types';
 
 /** A backtest plan: a held-out term (default in the product) or random k-fold. */
 export type EvaluationPlan = { holdoutTerm: string } | { folds: number; seed?: number };
@@ -16,8 +26,33 @@ export interface Metrics {
   coverage: number | null;
 }
 
+/** How the likely ranges of a configuration did on the held-out outcomes. */
+export interface RangeMetrics {
+  /** The term whose residuals made the ranges (the one before the holdout). */
+  calibrationTerm: string;
+  /** Share of held-out outcomes inside their 80 % range. */
+  coverage: number | null;
+  /** Mean width of the ranges. */
+  meanWidth: number | null;
+  byConfidence: Record<Confidence, { n: number; coverage: number | null }>;
+}
+
+/** A configuration's MAE margin over the best baseline (positive: better), with a bootstrap interval. */
+export interface Margin {
+  /** The baseline with the lowest MAE. */
+  baseline: keyof SignalEvaluation['baselines'];
+  mae: number;
+  /** 95 % percentile interval from resampling students (1,000 resamples, seeded). */
+  low: number;
+  high: number;
+}
+
 export interface SignalEvaluation {
-  configurations: (Metrics & { settings: Settings })[];
+  configurations: (Metrics & {
+    settings: Settings;
+    margin: Margin | null;
+    ranges: RangeMetrics | null;
+  })[];
   baselines: {
     globalMean: Metrics;
     courseMean: Metrics;
@@ -55,6 +90,164 @@ class Acc {
       coverage: this.own / this.n,
     };
   }
+}
+
+/** Per test cell of one configuration: student, absolute error and range outcome. */
+class CellLog {
+  student: number[] = [];
+  err: number[] = [];
+  inside: number[] = []; // 1 inside, 0 outside, -1 no range
+  conf: number[] = []; // 0 low, 1 medium, 2 high
+  width: number[] = [];
+  add(
+    student: number,
+    err: number,
+    truth: number,
+    range: { low: number; high: number; confidence: Confidence } | null,
+  ): void {
+    this.student.push(student);
+    this.err.push(err);
+    if (range) {
+      this.inside.push(truth >= range.low && truth <= range.high ? 1 : 0);
+      this.conf.push(range.confidence === 'high' ? 2 : range.confidence === 'medium' ? 1 : 0);
+      this.width.push(range.high - range.low);
+    } else {
+      this.inside.push(-1);
+      this.conf.push(0);
+      this.width.push(NaN);
+    }
+  }
+
+  ranges(term: string): RangeMetrics {
+    const levels: Confidence[] = ['low', 'medium', 'high'];
+    const by = levels.map(() => ({ n: 0, in: 0 }));
+    let n = 0;
+    let inside = 0;
+    let width = 0;
+    for (let x = 0; x < this.inside.length; x++) {
+      if (this.inside[x] < 0) continue;
+      n++;
+      inside += this.inside[x];
+      width += this.width[x];
+      by[this.conf[x]].n++;
+      by[this.conf[x]].in += this.inside[x];
+    }
+    const byConfidence = {} as RangeMetrics['byConfidence'];
+    levels.forEach((l, i) => {
+      byConfidence[l] = { n: by[i].n, coverage: by[i].n ? by[i].in / by[i].n : null };
+    });
+    return {
+      calibrationTerm: term,
+      coverage: n ? inside / n : null,
+      meanWidth: n ? width / n : null,
+      byConfidence,
+    };
+  }
+
+  /** MAE margin over the best baseline; the interval resamples students (seeded). */
+  margin(
+    base: Record<keyof SignalEvaluation['baselines'], number[]>,
+    resamples: number,
+  ): Margin | null {
+    const n = this.err.length;
+    if (n === 0) return null;
+    const mean = (a: number[]) => a.reduce((t, x) => t + x, 0) / a.length;
+    let best: keyof SignalEvaluation['baselines'] = 'dampedBias';
+    let bestMae = Infinity;
+    for (const k of ['globalMean', 'courseMean', 'studentMean', 'dampedBias'] as const) {
+      const m = mean(base[k]);
+      if (m < bestMae) {
+        bestMae = m;
+        best = k;
+      }
+    }
+    const b = base[best];
+    // Per student: summed baseline error minus summed configuration error, and cell count.
+    const idx = new Map<number, number>();
+    const diff: number[] = [];
+    const cnt: number[] = [];
+    for (let x = 0; x < n; x++) {
+      let i = idx.get(this.student[x]);
+      if (i === undefined) {
+        i = diff.length;
+        idx.set(this.student[x], i);
+        diff.push(0);
+        cnt.push(0);
+      }
+      diff[i] += b[x] - this.err[x];
+      cnt[i]++;
+    }
+    const mae = bestMae - mean(this.err);
+    const rnd = seededRandom(20240917);
+    const U = diff.length;
+    const stats = new Float64Array(resamples);
+    for (let r = 0; r < resamples; r++) {
+      let d = 0;
+      let c = 0;
+      for (let u = 0; u < U; u++) {
+        const i = Math.floor(rnd() * U);
+        d += diff[i];
+        c += cnt[i];
+      }
+      stats[r] = d / c;
+    }
+    stats.sort();
+    const q = (p: number) =>
+      stats[Math.min(resamples - 1, Math.max(0, Math.round(p * (resamples - 1))))];
+    return {
+      baseline: best,
+      mae,
+      low: resamples ? q(0.025) : mae,
+      high: resamples ? q(0.975) : mae,
+    };
+  }
+}
+
+/**
+ * Likely-range tables per signal from a backtest on `term` (trained on the terms before it):
+ * the residuals of up to `maxStudents` held-out students (every m-th, so the choice is
+ * reproducible).
+ */
+export function calibrateRanges(
+  input: RecordsInput | RecordTable,
+  term: string,
+  settings: SettingsInput,
+  options: BuildOptions & { signals?: readonly Signal[]; maxStudents?: number } = {},
+): Partial<Record<Signal, RangeTable>> {
+  const table = 'studentKeys' in input ? input : buildTable(input, options);
+  const st = resolveSettings(settings);
+  const [fold] = holdoutFolds(table, term);
+  const model = modelFromTable(table, fold.train);
+  const out: Partial<Record<Signal, RangeTable>> = {};
+  const max = options.maxStudents ?? 3000;
+  for (const s of options.signals ?? SIGNALS) {
+    let test = fold.tests[s];
+    const students = new Set(test.student).size;
+    if (students > max) {
+      const step = Math.ceil(students / max);
+      const keep: number[] = [];
+      let seen = -1;
+      let ord = -1;
+      for (let x = 0; x < test.student.length; x++) {
+        if (test.student[x] !== seen) {
+          seen = test.student[x];
+          ord++;
+        }
+        if (ord % step === 0) keep.push(x);
+      }
+      test = {
+        student: Int32Array.from(keep, (x) => test.student[x]),
+        course: Int32Array.from(keep, (x) => test.course[x]),
+        truth: Float64Array.from(keep, (x) => test.truth[x]),
+      };
+    }
+    if (test.student.length === 0 || model.signals[s].globalMean !== model.signals[s].globalMean) {
+      continue;
+    }
+    const cells = residualCells(model, s, test, st);
+    out[s] = rangeTable(cells, s, term, table.scales[s] ?? DEFAULT_SCALES[s]);
+  }
+  return out;
 }
 
 interface Fold {
@@ -209,8 +402,14 @@ function kFolds(table: RecordTable, K: number, seed: number): Fold[] {
 export function evaluate(
   input: RecordsInput | RecordTable,
   plan: EvaluationPlan,
-  configurations: readonly Partial<Settings>[] = [{}],
-  options: BuildOptions & { signals?: readonly Signal[] } = {},
+  configurations: readonly SettingsInput[] = [{}],
+  options: BuildOptions & {
+    signals?: readonly Signal[];
+    /** Likely ranges from the term before the holdout, and their coverage (time holdout only). */
+    ranges?: boolean;
+    /** Resamples for the margin's interval; 0 leaves margins out. */
+    bootstrap?: number;
+  } = {},
 ): EvaluationReport {
   const table = 'studentKeys' in input ? input : buildTable(input, options);
   const folds =
@@ -219,6 +418,22 @@ export function evaluate(
       : kFolds(table, plan.folds, plan.seed ?? 1);
   const settings = configurations.map((c) => resolveSettings(c));
   const signals = options.signals ?? SIGNALS;
+  const tables: (Partial<Record<Signal, RangeTable>> | null)[] = settings.map(() => null);
+  let calibrationTerm: string | null = null;
+  if (options.ranges && 'holdoutTerm' in plan) {
+    const T = table.termKeys.indexOf(plan.holdoutTerm);
+    if (T >= 2) {
+      calibrationTerm = table.termKeys[T - 1];
+      settings.forEach((st, ci) => {
+        tables[ci] = calibrateRanges(table, calibrationTerm as string, st, { signals });
+      });
+    }
+  }
+  const cells = {} as Record<Signal, CellLog[]>;
+  for (const s of signals) cells[s] = settings.map(() => new CellLog());
+  const baseErr = {} as Record<Signal, Record<keyof SignalEvaluation['baselines'], number[]>>;
+  for (const s of signals)
+    baseErr[s] = { globalMean: [], courseMean: [], studentMean: [], dampedBias: [] };
   const acc = {} as Record<Signal, { cfg: Acc[]; g: Acc; c: Acc; s: Acc; b: Acc }>;
   for (const s of signals) {
     acc[s] = {
@@ -245,14 +460,19 @@ export function evaluate(
         const truth = test.truth[x];
         const hasA = d.rowPtr[a + 1] > d.rowPtr[a];
         const hasJ = d.colPtr[j + 1] > d.colPtr[j];
-        A.g.add(clamp(mu, scale), truth, true);
-        A.c.add(clamp(hasJ ? d.courseMean[j] : mu, scale), truth, hasJ);
-        A.s.add(clamp(hasA ? d.mean[a] : mu, scale), truth, hasA);
-        A.b.add(
-          clamp(mu + (hasA ? d.studentBias[a] : 0) + (hasJ ? d.courseBias[j] : 0), scale),
-          truth,
-          true,
-        );
+        const gm = clamp(mu, scale);
+        const cm = clamp(hasJ ? d.courseMean[j] : mu, scale);
+        const sm = clamp(hasA ? d.mean[a] : mu, scale);
+        const bm = clamp(mu + (hasA ? d.studentBias[a] : 0) + (hasJ ? d.courseBias[j] : 0), scale);
+        A.g.add(gm, truth, true);
+        A.c.add(cm, truth, hasJ);
+        A.s.add(sm, truth, hasA);
+        A.b.add(bm, truth, true);
+        const E = baseErr[s];
+        E.globalMean.push(Math.abs(gm - truth));
+        E.courseMean.push(Math.abs(cm - truth));
+        E.studentMean.push(Math.abs(sm - truth));
+        E.dampedBias.push(Math.abs(bm - truth));
       }
       // Configurations: one scoring call per student over that student's test courses.
       settings.forEach((st, ci) => {
@@ -264,11 +484,16 @@ export function evaluate(
           const targets = test.course.subarray(x, y);
           scorer.score(a, targets, st, [s]);
           const o = scorer.out[s];
+          const rt = tables[ci]?.[s];
+          const records = d.rowPtr[a + 1] - d.rowPtr[a];
           for (let t = 0; t < targets.length; t++) {
             let v = o.value[t];
             if (v !== v) v = baselineValue(d, a, targets[t], scale);
             if (v !== v) v = clamp(mu, scale);
-            A.cfg[ci].add(v, test.truth[x + t], o.basis[t] === BASIS_NEIGHBOURS);
+            const kin = o.basis[t] === BASIS_NEIGHBOURS;
+            A.cfg[ci].add(v, test.truth[x + t], kin);
+            const range = likelyRange(rt, v, records, kin ? o.strength[t] : 0);
+            cells[s][ci].add(a, Math.abs(v - test.truth[x + t]), test.truth[x + t], range);
           }
           x = y;
         }
@@ -279,7 +504,15 @@ export function evaluate(
   for (const s of signals) {
     const A = acc[s];
     out.signals[s] = {
-      configurations: settings.map((st, ci) => ({ settings: st, ...A.cfg[ci].metrics() })),
+      configurations: settings.map((st, ci) => ({
+        settings: st,
+        ...A.cfg[ci].metrics(),
+        margin:
+          options.bootstrap === 0
+            ? null
+            : cells[s][ci].margin(baseErr[s], options.bootstrap ?? 1000),
+        ranges: calibrationTerm && tables[ci] ? cells[s][ci].ranges(calibrationTerm) : null,
+      })),
       baselines: {
         globalMean: A.g.metrics(),
         courseMean: A.c.metrics(),

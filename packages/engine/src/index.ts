@@ -3,8 +3,8 @@
  * See README.md for the public surface and ../../docs or the design notes for the method.
  */
 export * from './types';
-export { buildModel, RecordError } from './model';
-export type { Model } from './model';
+export { buildModel, buildTable, modelFromTable, RecordError } from './model';
+export type { Model, RecordTable } from './model';
 export {
   resolveSettings,
   similarities,
@@ -18,8 +18,26 @@ export { CONFIDENCE_DESCRIPTION, CONFIDENCE_RULE, DEFAULT_SCALES } from './score
 export { scoreBatch, toStudentPrediction, defaultWorkerPath } from './batch';
 export type { BatchRequest, BatchOptions, StudentScores, CompactSignal } from './batch';
 export { BASIS_NAMES, CONFIDENCE_NAMES } from './score';
-export { evaluate, HOLDOUT_MIN_EARLIER_RECORDS } from './evaluate';
-export type { EvaluationPlan, EvaluationReport, Metrics, SignalEvaluation } from './evaluate';
+export { evaluate, calibrateRanges, HOLDOUT_MIN_EARLIER_RECORDS } from './evaluate';
+export type {
+  EvaluationPlan,
+  EvaluationReport,
+  Margin,
+  Metrics,
+  RangeMetrics,
+  SignalEvaluation,
+} from './evaluate';
+export {
+  applyRanges,
+  likelyRange,
+  rangeTable,
+  confidenceOfWidth,
+  RANGE_CONFIDENCE_DESCRIPTION,
+  RANGE_CONFIDENCE_RULE,
+  RANGE_LEVEL,
+  RANGE_MIN_CELLS,
+} from './ranges';
+export type { LikelyRange, RangeBin, RangeTable } from './ranges';
 export {
   choiceProbabilities,
   expectedLoad,
@@ -33,3 +51,5 @@ export {
 export type { ForecastStudent, CourseDemand } from './forecast';
 export { generateUniversity, registrarTermOrder } from './generator';
 export type { University, UniversityOptions } from './generator';
+export { suggestSettings, SUGGESTION_GRID } from './suggest';
+export type { Suggestion, SettingsChange } from './suggest';

@@ -1,4 +1,13 @@
-import { BuildOptions, RecordsInput, Scale, Settings, Signal, SIGNALS, ValueColumn } from './types';
+import {
+  BuildOptions,
+  Damping,
+  RecordsInput,
+  Scale,
+  Settings,
+  Signal,
+  SIGNALS,
+  ValueColumn,
+} from './types';
 
 /** Damping of the baseline means (method.md). */
 export const BASELINE_DAMPING = 5;
@@ -52,6 +61,11 @@ export interface SignalData {
   courseMean: Float64Array; // NaN for a course with no value
   courseBias: Float64Array; // damped b_j
   studentBias: Float64Array; // damped b_u
+  /**
+   * Added to the centre m_u of a student to give the centre of a cell: b_j under baseline
+   * centring (then mean holds mu + b_u), zeros otherwise.
+   */
+  courseShift: Float64Array;
   /** Students with at least one value (N of the inverse user frequency). */
   active: number;
   // Derived arrays for similarity, computed on first use (see similarityView). Present from
@@ -86,6 +100,13 @@ export interface Model {
   /** Rank of each student key in string order: the tie rule of the neighbourhood. */
   studentRank: Int32Array;
   signals: Record<Signal, SignalData>;
+  /** Every course with any record (W included), value 1: the enrolment similarity's data. */
+  enrolment: SignalData;
+  /**
+   * Centring and damping this model's centres and baselines were made for (see modelFor);
+   * null for a model as built (student means, damping 5).
+   */
+  variant: string | null;
   /** Both signals' courses per student in one row, made on first use (see unionRows). */
   union: UnionRows | null;
   scales: Partial<Record<Signal, Scale>>;
@@ -230,10 +251,9 @@ function countingSort(idx: Int32Array, key: Int32Array, buckets: number): Int32A
   return out;
 }
 
-function buildSignal(table: RecordTable, signal: Signal, mask: Uint8Array | null): SignalData {
+function buildSignal(table: RecordTable, vals: Float64Array, mask: Uint8Array | null): SignalData {
   const S = table.studentKeys.length;
   const C = table.courseKeys.length;
-  const vals = table.values[signal];
   let m = 0;
   for (let r = 0; r < vals.length; r++) if (vals[r] === vals[r] && (!mask || mask[r])) m++;
   const idx = new Int32Array(m);
@@ -297,27 +317,17 @@ function buildSignal(table: RecordTable, signal: Signal, mask: Uint8Array | null
     } else mean[s] = globalMean;
   }
   const courseMean = sharedF64(C);
-  const courseBias = sharedF64(C);
   for (let c = 0; c < C; c++) {
     const a = colPtr[c];
     const b = colPtr[c + 1];
     let sum = 0;
-    let dev = 0;
-    for (let p = a; p < b; p++) {
-      sum += colValue[p];
-      dev += colValue[p] - globalMean;
-    }
+    for (let p = a; p < b; p++) sum += colValue[p];
     courseMean[c] = b > a ? sum / (b - a) : NaN;
-    courseBias[c] = b > a ? dev / (b - a + BASELINE_DAMPING) : 0;
   }
-  const studentBias = sharedF64(S);
-  for (let s = 0; s < S; s++) {
-    const a = rowPtr[s];
-    const b = rowPtr[s + 1];
-    let dev = 0;
-    for (let p = a; p < b; p++) dev += rowValue[p] - globalMean - courseBias[rowCourse[p]];
-    studentBias[s] = b > a ? dev / (b - a + BASELINE_DAMPING) : 0;
-  }
+  const { courseBias, studentBias } = dampedBiases(
+    { rowPtr, rowCourse, rowValue, colPtr, colValue, globalMean },
+    { student: BASELINE_DAMPING, course: BASELINE_DAMPING },
+  );
   return {
     rowPtr,
     rowCourse,
@@ -330,6 +340,7 @@ function buildSignal(table: RecordTable, signal: Signal, mask: Uint8Array | null
     courseMean,
     courseBias,
     studentBias,
+    courseShift: sharedF64(C),
     active,
     rowCentered: null,
     colCentered: null,
@@ -337,6 +348,36 @@ function buildSignal(table: RecordTable, signal: Signal, mask: Uint8Array | null
     norms: {},
     dense: {},
   };
+}
+
+/**
+ * Damped biases (method.md, "Baseline"): b_j = sum (r - mu) / (n_j + lambda_j),
+ * b_u = sum (r - mu - b_j) / (|I_u| + lambda_u); 0 without values.
+ */
+export function dampedBiases(
+  d: Pick<SignalData, 'rowPtr' | 'rowCourse' | 'rowValue' | 'colPtr' | 'colValue' | 'globalMean'>,
+  damping: Damping,
+): { courseBias: Float64Array; studentBias: Float64Array } {
+  const { rowPtr, rowCourse, rowValue, colPtr, colValue, globalMean } = d;
+  const C = colPtr.length - 1;
+  const S = rowPtr.length - 1;
+  const courseBias = sharedF64(C);
+  for (let c = 0; c < C; c++) {
+    const a = colPtr[c];
+    const b = colPtr[c + 1];
+    let dev = 0;
+    for (let p = a; p < b; p++) dev += colValue[p] - globalMean;
+    courseBias[c] = b > a ? dev / (b - a + damping.course) : 0;
+  }
+  const studentBias = sharedF64(S);
+  for (let s = 0; s < S; s++) {
+    const a = rowPtr[s];
+    const b = rowPtr[s + 1];
+    let dev = 0;
+    for (let p = a; p < b; p++) dev += rowValue[p] - globalMean - courseBias[rowCourse[p]];
+    studentBias[s] = b > a ? dev / (b - a + damping.student) : 0;
+  }
+  return { courseBias, studentBias };
 }
 
 /** Rank of every student key in string (UTF-16 code unit) order. */
@@ -362,11 +403,106 @@ export function modelFromTable(table: RecordTable, mask: Uint8Array | null = nul
     courseIndex,
     studentRank: keyRanks(table.studentKeys),
     signals: {
-      grade: buildSignal(table, 'grade', mask),
-      satisfaction: buildSignal(table, 'satisfaction', mask),
+      grade: buildSignal(table, table.values.grade, mask),
+      satisfaction: buildSignal(table, table.values.satisfaction, mask),
     },
+    enrolment: buildSignal(table, new Float64Array(table.student.length).fill(1), mask),
+    variant: null,
     scales: table.scales,
     union: null,
+  };
+}
+
+/** The variant key of settings: null when the model as built serves them. */
+export function variantKey(settings: Settings): string | null {
+  const d = settings.damping;
+  const plain =
+    settings.centring !== 'baseline' &&
+    d.grade.student === BASELINE_DAMPING &&
+    d.grade.course === BASELINE_DAMPING &&
+    d.satisfaction.student === BASELINE_DAMPING &&
+    d.satisfaction.course === BASELINE_DAMPING;
+  if (plain) return null;
+  return [
+    settings.centring === 'baseline' ? 'b' : 'm',
+    d.grade.student,
+    d.grade.course,
+    d.satisfaction.student,
+    d.satisfaction.course,
+  ].join(',');
+}
+
+const variants = new WeakMap<Model, Map<string, Model>>();
+
+/**
+ * The model whose centres and baselines match the settings' centring and damping. It shares
+ * the built model's records; under baseline centring each student's centre is mu + b_u and
+ * each cell's is mu + b_u + b_j, so the residuals e_uj = r_uj - b_uj serve both similarity
+ * and prediction. Made once per model and key.
+ */
+export function modelFor(model: Model, settings: Settings): Model {
+  const key = variantKey(settings);
+  if (key === model.variant) return model;
+  if (model.variant !== null) {
+    throw new Error(`this model was prepared for other settings (${model.variant})`);
+  }
+  if (key === null) return model;
+  let byKey = variants.get(model);
+  if (!byKey) {
+    byKey = new Map();
+    variants.set(model, byKey);
+  }
+  let m = byKey.get(key);
+  if (!m) {
+    m = {
+      ...model,
+      signals: {
+        grade: variantSignal(model.signals.grade, settings.damping.grade, settings.centring),
+        satisfaction: variantSignal(
+          model.signals.satisfaction,
+          settings.damping.satisfaction,
+          settings.centring,
+        ),
+      },
+      variant: key,
+      union: null,
+    };
+    if (model.union && model.union.ok) {
+      const S = model.studentKeys.length;
+      const means = sharedF64(2 * S);
+      for (let u = 0; u < S; u++) {
+        means[2 * u] = m.signals.grade.mean[u];
+        means[2 * u + 1] = m.signals.satisfaction.mean[u];
+      }
+      m.union = { ...model.union, means };
+    }
+    byKey.set(key, m);
+  }
+  return m;
+}
+
+function variantSignal(
+  d: SignalData,
+  damping: Damping,
+  centring: Settings['centring'],
+): SignalData {
+  const { courseBias, studentBias } = dampedBiases(d, damping);
+  if (centring !== 'baseline') {
+    return { ...d, courseBias, studentBias };
+  }
+  const S = d.rowPtr.length - 1;
+  const mean = sharedF64(S);
+  for (let u = 0; u < S; u++) mean[u] = d.globalMean + studentBias[u];
+  return {
+    ...d,
+    mean,
+    courseBias,
+    studentBias,
+    courseShift: courseBias,
+    rowCentered: null,
+    colCentered: null,
+    norms: {},
+    dense: {},
   };
 }
 
@@ -389,8 +525,27 @@ export interface SimilarityView {
   dense: DenseBlock;
 }
 
-export function similarityView(model: Model, settings: Settings): SimilarityView {
-  const d = model.signals[settings.similaritySignal];
+/** One similarity's data: a signal's residuals or enrolment. */
+export type SimilarityComponent = Signal | 'enrolment';
+
+/** The similarities a source averages. */
+export function componentsOf(source: Settings['gradeSimilarity']): SimilarityComponent[] {
+  switch (source) {
+    case 'both':
+      return ['grade', 'satisfaction'];
+    case 'satisfaction+enrolment':
+      return ['satisfaction', 'enrolment'];
+    default:
+      return [source];
+  }
+}
+
+export function similarityView(
+  model: Model,
+  component: SimilarityComponent,
+  settings: Settings,
+): SimilarityView {
+  const d = component === 'enrolment' ? model.enrolment : model.signals[component];
   const C = model.courseKeys.length;
   const S = model.studentKeys.length;
   if (!d.iuf) {
@@ -401,15 +556,19 @@ export function similarityView(model: Model, settings: Settings): SimilarityView
     }
     d.iuf = iuf;
   }
-  if (!d.rowCentered) {
+  const center =
+    component !== 'enrolment' &&
+    (settings.similarity === 'pearson' || settings.centring !== 'none');
+  if (center && !d.rowCentered) {
     const rc = sharedF64(d.rowValue.length);
     for (let s = 0; s < S; s++) {
-      for (let p = d.rowPtr[s]; p < d.rowPtr[s + 1]; p++) rc[p] = d.rowValue[p] - d.mean[s];
+      for (let p = d.rowPtr[s]; p < d.rowPtr[s + 1]; p++) {
+        rc[p] = d.rowValue[p] - d.mean[s] - d.courseShift[d.rowCourse[p]];
+      }
     }
     d.rowCentered = rc;
   }
-  centeredColumns(d);
-  const center = settings.similarity === 'pearson' || settings.center;
+  if (center) centeredColumns(d);
   const f = settings.iuf ? (d.iuf as Float64Array) : ones(C);
   const rowX = center ? (d.rowCentered as Float64Array) : d.rowValue;
   const colX = center ? (d.colCentered as Float64Array) : d.colValue;
@@ -469,17 +628,27 @@ function ones(n: number): Float64Array {
 export function centeredColumns(d: SignalData): Float64Array {
   if (!d.colCentered) {
     const cc = sharedF64(d.colValue.length);
-    for (let p = 0; p < cc.length; p++) cc[p] = d.colValue[p] - d.mean[d.colStudent[p]];
+    const C = d.colPtr.length - 1;
+    for (let c = 0; c < C; c++) {
+      const shift = d.courseShift[c];
+      for (let p = d.colPtr[c]; p < d.colPtr[c + 1]; p++) {
+        cc[p] = d.colValue[p] - d.mean[d.colStudent[p]] - shift;
+      }
+    }
     d.colCentered = cc;
   }
   return d.colCentered;
 }
 
 /** Every derived array for the given settings, so that a snapshot carries them to workers. */
-export function prepare(model: Model, settings: Settings): void {
-  similarityView(model, settings);
+export function prepare(model: Model, settings: Settings): Model {
   unionRows(model);
-  for (const s of SIGNALS) centeredColumns(model.signals[s]);
+  const m = modelFor(model, settings);
+  for (const source of [settings.gradeSimilarity, settings.satisfactionSimilarity]) {
+    for (const c of componentsOf(source)) similarityView(m, c, settings);
+  }
+  for (const s of SIGNALS) centeredColumns(m.signals[s]);
+  return m;
 }
 
 /**

@@ -1,6 +1,6 @@
-import { centeredColumns, Model, SignalData, UnionRows, unionRows } from './model';
+import { centeredColumns, Model, modelFor, SignalData, UnionRows, unionRows } from './model';
 import { SimilarityWorkspace } from './similarity';
-import { Basis, Confidence, Scale, Settings, Signal, SIGNALS } from './types';
+import { Basis, Confidence, Scale, Settings, Signal, SIGNALS, SimilaritySource } from './types';
 
 export const BASIS_NONE = 0;
 export const BASIS_BASELINE = 1;
@@ -49,6 +49,8 @@ export interface SignalScores {
   basis: Uint8Array;
   spread: Float64Array;
   confidence: Uint8Array;
+  /** Kin strength: sum of |w| over the kin (0 on the baseline). */
+  strength: Float64Array;
 }
 
 function allocScores(n: number): SignalScores {
@@ -58,7 +60,14 @@ function allocScores(n: number): SignalScores {
     basis: new Uint8Array(n),
     spread: new Float64Array(n),
     confidence: new Uint8Array(n),
+    strength: new Float64Array(n),
   };
+}
+
+/** The signal whose untaken courses are a student's candidates when no list is given. */
+export function targetSignal(settings: Settings): Signal {
+  const s = settings.gradeSimilarity;
+  return s === 'satisfaction' ? 'satisfaction' : 'grade';
 }
 
 function clamp(v: number, scale: Scale | undefined): number {
@@ -70,6 +79,11 @@ function clamp(v: number, scale: Scale | undefined): number {
 export function baselineValue(d: SignalData, a: number, j: number, scale?: Scale): number {
   if (j < 0 || d.colPtr[j + 1] === d.colPtr[j]) return NaN;
   return clamp(d.globalMean + (a >= 0 ? d.studentBias[a] : 0) + d.courseBias[j], scale);
+}
+
+/** The similarity source that serves a predicted signal. */
+export function sourceFor(settings: Settings, s: Signal): SimilaritySource {
+  return s === 'grade' ? settings.gradeSimilarity : settings.satisfactionSimilarity;
 }
 
 /** Below this much scanning in all, scan without walking when walking every candidate costs more. */
@@ -109,6 +123,11 @@ function bitOf(s: Signal): number {
  */
 export class Scorer {
   readonly ws: SimilarityWorkspace;
+  /**
+   * The model of the last call: the built model, or its variant for the settings' centring
+   * and damping (modelFor).
+   */
+  model: Model;
   readonly out: Record<Signal, SignalScores>;
   /** Neighbourhood sizes of the last call per target position. */
   fill: Record<Signal, Int32Array>;
@@ -138,7 +157,9 @@ export class Scorer {
   /** Keeps the loads of touchAhead observable. */
   sink = 0;
 
-  constructor(readonly model: Model) {
+  constructor(readonly base: Model) {
+    const model = base;
+    this.model = base;
     this.ws = new SimilarityWorkspace(model);
     const S = model.studentKeys.length;
     this.cand = new Int32Array(S);
@@ -216,14 +237,33 @@ export class Scorer {
     settings: Settings,
     signals: readonly Signal[],
   ): void {
-    const model = this.model;
-    const T = targets.length;
+    const model = modelFor(this.base, settings);
+    this.model = model;
+    this.ws.model = model;
     const k = Math.max(0, Math.floor(settings.k));
-    this.ensure(T, k);
+    this.ensure(targets.length, k);
     const sig: Signal[] = [];
     for (const s of signals) if (!sig.includes(s)) sig.push(s);
+    // Signals served by the same similarity share one pass (and one walk).
+    if (sig.length < 2 || sourceFor(settings, sig[0]) === sourceFor(settings, sig[1])) {
+      this.pass(a, targets, settings, sig, sourceFor(settings, sig[0] ?? 'grade'));
+    } else {
+      for (const s of sig) this.pass(a, targets, settings, [s], sourceFor(settings, s));
+    }
+  }
+
+  private pass(
+    a: number,
+    targets: ArrayLike<number>,
+    settings: Settings,
+    sig: Signal[],
+    source: SimilaritySource,
+  ): void {
+    const model = this.model;
+    const T = targets.length;
+    const k = this.k;
     const ws = this.ws;
-    ws.compute(a, settings, false);
+    ws.computeSource(a, settings, source, false);
     const w = ws.w;
     const minSim = settings.minSimilarity;
     const nc =
@@ -357,6 +397,7 @@ export class Scorer {
         o.basis,
         o.spread,
         o.confidence,
+        o.strength,
       );
     }
     for (let t = 0; t < T; t++) if (targets[t] >= 0) code[targets[t]] = 0;
@@ -379,7 +420,9 @@ export class Scorer {
     const g = model.signals.grade;
     const sa = model.signals.satisfaction;
     const both = sig.length > 1;
-    const u = both ? unionRows(model) : null;
+    // Union rows carry student centres only; cells centred on b_uj walk each signal's rows.
+    const shifted = model.variant !== null && model.variant[0] === 'b';
+    const u = both && !shifted ? unionRows(model) : null;
     const union = u !== null && u.ok;
     const d = model.signals[sig[0]];
     const bit = bitOf(sig[0]);
@@ -726,6 +769,7 @@ function walkRow(
 ): number {
   const rowCourse = d.rowCourse;
   const rowValue = d.rowValue;
+  const shift = d.courseShift;
   const mi = d.mean[i];
   let saved = 0;
   const e = d.rowPtr[i + 1];
@@ -737,7 +781,7 @@ function walkRow(
     const f = fill[t];
     const r = (t * k + f) * SLOT;
     slots[r] = wi;
-    slots[r + 1] = rowValue[p] - mi;
+    slots[r + 1] = rowValue[p] - mi - shift[j];
     fill[t] = f + 1;
     if (f + 1 === k) {
       code[j] = c ^ bit;
@@ -829,6 +873,7 @@ function predictFromSlots(
   basis: Uint8Array,
   spreadOut: Float64Array,
   confidence: Uint8Array,
+  strength: Float64Array,
 ): void {
   const ma = a >= 0 ? d.mean[a] : d.globalMean;
   const T = targets.length;
@@ -842,6 +887,7 @@ function predictFromSlots(
       basis[t] = basis[t0];
       spreadOut[t] = spreadOut[t0];
       confidence[t] = confidence[t0];
+      strength[t] = strength[t0];
       fill[t] = fill[t0];
       continue;
     }
@@ -874,7 +920,9 @@ function predictFromSlots(
         v += u * e * e;
       }
       const spread = Math.sqrt(v / tot);
-      const p = ma + dev;
+      // The centre of the cell: m_a, or b_aj = (mu + b_a) + b_j under baseline centring.
+      const p = ma + d.courseShift[j] + dev;
+      strength[t] = den;
       value[t] = p < lo ? lo : p > hi ? hi : p;
       basis[t] = BASIS_NEIGHBOURS;
       spreadOut[t] = spread;
@@ -890,6 +938,7 @@ function predictFromSlots(
       basis[t] = b === b ? BASIS_BASELINE : BASIS_NONE;
       spreadOut[t] = NaN;
       confidence[t] = 0;
+      strength[t] = 0;
     }
   }
 }

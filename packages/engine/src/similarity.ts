@@ -1,5 +1,35 @@
-import { DenseBlock, Model, similarityView, SimilarityView } from './model';
-import { Settings } from './types';
+import {
+  componentsOf,
+  DenseBlock,
+  Model,
+  SimilarityComponent,
+  similarityView,
+  SimilarityView,
+} from './model';
+import { Settings, SimilaritySource } from './types';
+
+const POW10: number[] = Array.from({ length: 340 }, (_, e) => Number(`1e${e}`));
+
+/**
+ * x rounded to `digits` significant digits (digits >= 1), so that values equal in exact
+ * arithmetic but apart in the last bits become equal.
+ */
+export function roundSignificant(x: number, digits: number): number {
+  if (x === 0 || x !== x) return x;
+  const m = x < 0 ? -x : x;
+  // 10^-e <= m < 10^(1-e) for similarities (|w| <= 1); larger values take the general route.
+  if (m >= 1) {
+    const e = Math.floor(Math.log10(m)) + 1 - digits;
+    if (e <= 0) return Math.round(x * POW10[-e]) / POW10[-e];
+    return Math.round(x / POW10[e]) * POW10[e];
+  }
+  let e = 1;
+  while (e < 300 && m < 1 / POW10[e]) e++;
+  // Far below any similarity's resolution: nothing to round.
+  if (e === 300) return x;
+  const sc = POW10[digits - 1 + e];
+  return Math.round(x * sc) / sc;
+}
 
 /**
  * Scratch arrays for one student's similarities, sized to the model and reused across calls
@@ -15,6 +45,12 @@ export class SimilarityWorkspace {
   zeroCourses = 0;
   student = -1;
   view: SimilarityView | null = null;
+  /** Scratch for sources that combine similarities or shrink them (made on first use). */
+  private acc: Float64Array | null = null;
+  private cnt: Int32Array | null = null;
+  private mark: Int32Array | null = null;
+  private list: Int32Array | null = null;
+  private stamp = 0;
   /**
    * True when the last compute took the dense route: then w is set for every student and
    * touched is not filled (every student counts as touched).
@@ -28,7 +64,7 @@ export class SimilarityWorkspace {
   private runSlot = new Int32Array(12);
   private runCoef = new Float64Array(12);
 
-  constructor(readonly model: Model) {
+  constructor(public model: Model) {
     const S = model.studentKeys.length;
     this.w = new Float64Array(S);
     this.overlap = new Int32Array(S);
@@ -46,8 +82,91 @@ export class SimilarityWorkspace {
     return d && d.rowPtr[i + 1] > d.rowPtr[i] ? this.zeroCourses : 0;
   }
 
-  /** Similarities of student a (index, or -1 for a student without records) to everyone. */
-  compute(a: number, settings: Settings, needOverlap: boolean): void {
+  /**
+   * The similarities of a source (method.md): the components' cosines averaged, then
+   * significance weighting and shrinkage with n the largest co-rated count among the
+   * components, then rounding for ranking. A single component without shrinkage or rounding
+   * is `compute` itself.
+   */
+  computeSource(
+    a: number,
+    settings: Settings,
+    source: SimilaritySource,
+    needOverlap: boolean,
+  ): void {
+    const comps = componentsOf(source);
+    if (comps.length === 1 && settings.shrinkage === 0 && settings.tieDigits === 0) {
+      this.compute(a, settings, needOverlap, comps[0]);
+      return;
+    }
+    const S = this.model.studentKeys.length;
+    if (!this.acc || this.acc.length !== S) {
+      this.acc = new Float64Array(S);
+      this.cnt = new Int32Array(S);
+      this.mark = new Int32Array(S);
+      this.list = new Int32Array(S);
+      this.stamp = 0;
+    }
+    const acc = this.acc;
+    const cnt = this.cnt as Int32Array;
+    const mark = this.mark as Int32Array;
+    const list = this.list as Int32Array;
+    this.stamp++;
+    if (this.stamp > 0x3fffffff) {
+      mark.fill(0);
+      this.stamp = 1;
+    }
+    const stamp = this.stamp;
+    const plain = settings.significance === 0 ? settings : { ...settings, significance: 0 };
+    let nList = 0;
+    const { w, touched } = this;
+    for (const c of comps) {
+      this.compute(a, plain, true, c);
+      for (let t = 0; t < this.nTouched; t++) {
+        const i = touched[t];
+        if (mark[i] !== stamp) {
+          mark[i] = stamp;
+          list[nList++] = i;
+          acc[i] = 0;
+          cnt[i] = 0;
+        }
+        acc[i] += w[i];
+        const o = this.overlapOf(i);
+        if (o > cnt[i]) cnt[i] = o;
+      }
+    }
+    for (let t = 0; t < this.nTouched; t++) w[touched[t]] = 0;
+    const m = comps.length;
+    const g = settings.significance;
+    const beta = settings.shrinkage;
+    const digits = settings.tieDigits;
+    const epoch = this.epoch;
+    for (let x = 0; x < nList; x++) {
+      const i = list[x];
+      const n = cnt[i];
+      let v = m === 1 ? acc[i] : acc[i] / m;
+      if (g > 0) v *= Math.min(n, g) / g;
+      if (beta > 0) v *= n / (n + beta);
+      if (digits > 0) v = roundSignificant(v, digits);
+      w[i] = i === a ? 0 : v;
+      touched[x] = i;
+      this.overlap[i] = n;
+      this.seen[i] = epoch;
+    }
+    this.nTouched = nList;
+    this.zeroCourses = 0;
+  }
+
+  /**
+   * Similarities of student a (index, or -1 for a student without records) to everyone, from
+   * one component.
+   */
+  compute(
+    a: number,
+    settings: Settings,
+    needOverlap: boolean,
+    component: SimilarityComponent,
+  ): void {
     const { w, touched } = this;
     if (this.dense) w.fill(0);
     else for (let t = 0; t < this.nTouched; t++) w[touched[t]] = 0;
@@ -60,12 +179,13 @@ export class SimilarityWorkspace {
       this.seen.fill(0);
       this.epoch = 1;
     }
-    const view = similarityView(this.model, settings);
+    const view = similarityView(this.model, component, settings);
     this.view = view;
     if (a < 0) return;
     if (settings.significance > 0) needOverlap = true;
     const { data, f, rowX, colX, norm } = view;
-    const pearson = settings.similarity === 'pearson';
+    // Enrolment is 0/1: always cosine.
+    const pearson = settings.similarity === 'pearson' && component !== 'enrolment';
     if (
       !pearson &&
       !needOverlap &&

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { buildModel, predictStudent, similarities } from '../src';
+import { buildModel, MEAN_CENTRED_SETTINGS, predictStudent, similarities } from '../src';
 
 /*
  * Source: C. C. Aggarwal, Recommender Systems: The Textbook (Springer, 2016), section 2.3.1,
@@ -34,7 +34,9 @@ function textbookModel() {
   return buildModel({ students, courses, terms: students.map(() => '2016-FA'), grades });
 }
 
+// The original method (mean-centred cosine of grades).
 const settings = {
+  ...MEAN_CENTRED_SETTINGS,
   similarity: 'pearson' as const,
   iuf: false,
   k: 2,

@@ -39,7 +39,9 @@ M.forEach((r, u) =>
   r.forEach((v, j) => v !== null && rows.push(`user${u + 1},item${j + 1},2016-FA,${v},`)),
 );
 const records = file('records.csv', rows.join('\n') + '\n');
-const textbook = ['--similarity', 'pearson', '--iuf', 'off', '--k', '2', '--min-neighbours', '2'];
+// The original method (--center on), which the textbook example follows.
+const pearsonOriginal = ['--center', 'on', '--similarity', 'pearson', '--iuf', 'off'];
+const textbook = [...pearsonOriginal, '--k', '2', '--min-neighbours', '2'];
 
 describe('kinpath-engine command line', () => {
   it('predict: JSON Lines in the order the courses were given', () => {
@@ -89,17 +91,7 @@ describe('kinpath-engine command line', () => {
   });
 
   it('neighbours: most similar first, only above min-similarity, with overlap', () => {
-    const r = run(
-      'neighbours',
-      '--records',
-      records,
-      '--student',
-      'user3',
-      '--similarity',
-      'pearson',
-      '--iuf',
-      'off',
-    );
+    const r = run('neighbours', '--records', records, '--student', 'user3', ...pearsonOriginal);
     expect(r.code).toBe(0);
     expect(r.lines[0].neighbours.map((n: { student: string }) => n.student)).toEqual([
       'user2',
@@ -112,10 +104,7 @@ describe('kinpath-engine command line', () => {
       records,
       '--student',
       'user3',
-      '--similarity',
-      'pearson',
-      '--iuf',
-      'off',
+      ...pearsonOriginal,
       '--min-similarity=-2',
       '--limit',
       '3',

@@ -16,6 +16,7 @@ import {
 } from '../src';
 import { similarityTerms, resolveSettings } from '../src/api';
 import { randomRecords, rng } from './helpers';
+import { MEAN_CENTRED_SETTINGS as MC } from '../src/types';
 
 const T = (n: number) => Array.from({ length: n }, () => '2024-FA');
 
@@ -59,11 +60,14 @@ describe('predictions', () => {
   });
 
   it('never returns NaN; baseline and none say so', () => {
-    const p = predictStudent(model, 's1', ['c1', 'c2', 'no such course'], { minNeighbours: 1000 });
+    const p = predictStudent(model, 's1', ['c1', 'c2', 'no such course'], {
+      ...MC,
+      minNeighbours: 1000,
+    });
     expect(p.predictions[0].grade.basis).toBe('baseline');
     expect(p.predictions[2].grade).toMatchObject({ basis: 'none', value: null, neighbours: 0 });
     expect(p.predictions[2].fit).toBeNull();
-    for (const c of predictStudent(model, 's1').predictions) {
+    for (const c of predictStudent(model, 's1', undefined, MC).predictions) {
       for (const v of [c.grade.value, c.satisfaction.value, c.fit])
         if (v !== null) expect(Number.isFinite(v)).toBe(true);
       expect(c.grade.value!).toBeGreaterThanOrEqual(0);
@@ -72,7 +76,7 @@ describe('predictions', () => {
   });
 
   it('a new student gets the baseline with b_a = 0', () => {
-    const p = predictStudent(model, 'brand new', ['c3']).predictions[0];
+    const p = predictStudent(model, 'brand new', ['c3'], MC).predictions[0];
     const d = model.signals.grade;
     const j = model.courseIndex.get('c3')!;
     expect(p.grade.basis).toBe('baseline');
@@ -80,7 +84,8 @@ describe('predictions', () => {
   });
 
   it('fit combines both signals with alpha and takes the lower confidence', () => {
-    const c = predictStudent(model, 's2', ['c4'], { alpha: 0.25, minNeighbours: 1 }).predictions[0];
+    const c = predictStudent(model, 's2', ['c4'], { ...MC, alpha: 0.25, minNeighbours: 1 })
+      .predictions[0];
     const g = (c.grade.value! - 0) / 4;
     const s = (c.satisfaction.value! - 1) / 4;
     expect(c.fit).toBeCloseTo(100 * (0.25 * g + 0.75 * s), 10);
@@ -96,22 +101,22 @@ describe('predictions', () => {
       terms: T(9),
       grades: [4, 2, 3, 4, 2, 1, 4, 2, 3],
     });
-    const e = explain(m, 'a', 'X 4', { k: 1, minNeighbours: 1, iuf: false });
+    const e = explain(m, 'a', 'X 4', { ...MC, k: 1, minNeighbours: 1, iuf: false });
     expect(e.kin.map((x) => x.student)).toEqual(['b']);
     expect(e.value).toBeCloseTo(3 + (3 - 3), 12);
   });
 
   it('significance weighting scales w by min(overlap, g) / g', () => {
-    const plain = new Map(similarities(model, 's0').map((k) => [k.student, k]));
-    for (const k of similarities(model, 's0', { significance: 50, minSimilarity: -2 })) {
+    const plain = new Map(similarities(model, 's0', MC).map((k) => [k.student, k]));
+    for (const k of similarities(model, 's0', { ...MC, significance: 50, minSimilarity: -2 })) {
       const p = plain.get(k.student);
       if (p) expect(k.similarity).toBeCloseTo((p.similarity * Math.min(p.overlap, 50)) / 50, 12);
     }
   });
 
   it('explains: per-course terms add up to each similarity; outcomes hidden under 5 kin', () => {
-    const e = explain(model, 's3', 'c5', { minNeighbours: 1 });
-    const st = resolveSettings({});
+    const e = explain(model, 's3', 'c5', { ...MC, minNeighbours: 1 });
+    const st = resolveSettings(MC);
     const a = model.studentIndex.get('s3')!;
     for (const x of e.kin) {
       const terms = similarityTerms(model, a, model.studentIndex.get(x.student)!, st);
@@ -119,7 +124,7 @@ describe('predictions', () => {
     }
     expect(e.sharedCourses.length).toBeGreaterThan(0);
     expect(e.outcomes === null).toBe(e.neighbours < 5);
-    const few = explain(model, 's3', 'c5', { k: 3, minNeighbours: 1 });
+    const few = explain(model, 's3', 'c5', { ...MC, k: 3, minNeighbours: 1 });
     expect(few.outcomes).toBeNull();
   });
 });
@@ -146,7 +151,7 @@ describe('evaluation', () => {
     const data = randomRecords(rng(3), 30, 8, 0.6);
     const r = evaluate(data, { folds: 4, seed: 9 }, [
       {},
-      { similarity: 'pearson', minNeighbours: 2 },
+      { similarity: 'pearson', centring: 'studentMean', minNeighbours: 2 },
     ]).signals.grade!;
     expect(r.baselines.globalMean.n).toBe(data.students.length);
     expect(r.configurations).toHaveLength(2);

@@ -1,6 +1,13 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { buildModel, explain, predictStudent, scoreBatch, toStudentPrediction } from '../src';
+import {
+  buildModel,
+  explain,
+  MEAN_CENTRED_SETTINGS,
+  predictStudent,
+  scoreBatch,
+  toStudentPrediction,
+} from '../src';
 import { randomRecords, rng } from './helpers';
 
 // Property tests (fast-check) on random universities.
@@ -19,6 +26,7 @@ describe('properties of a prediction', () => {
         const data = randomRecords(rng(seed), students, courses, fill);
         const model = buildModel(data);
         const settings = {
+          ...MEAN_CENTRED_SETTINGS,
           k,
           minNeighbours: 1,
           similarity: pearson ? ('pearson' as const) : ('cosine' as const),
@@ -54,7 +62,12 @@ describe('properties of a prediction', () => {
         fc.integer({ min: 1, max: 10 }),
         ({ seed, students, courses, fill, k }, extra) => {
           const data = randomRecords(rng(seed), students, courses, fill);
-          const settings = { k, minNeighbours: 1, iuf: false };
+          const settings = {
+            ...MEAN_CENTRED_SETTINGS,
+            k,
+            minNeighbours: 1,
+            iuf: false,
+          };
           const before = predictStudent(buildModel(data), 's0', undefined, settings);
           const more = {
             students: [...data.students],
@@ -95,7 +108,11 @@ describe('properties of a prediction', () => {
       fc.asyncProperty(universe, async ({ seed, students, courses, fill, k }) => {
         const data = randomRecords(rng(seed), students, courses, fill);
         const model = buildModel(data);
-        const settings = { k, minNeighbours: 2 };
+        const settings = {
+          ...MEAN_CENTRED_SETTINGS,
+          k,
+          minNeighbours: 2,
+        };
         const keys = [...new Set(data.students)].slice(0, 12);
         keys.push('nobody-yet');
         const batch = await scoreBatch(

@@ -1,6 +1,6 @@
 import cosineSimilarity from 'compute-cosine-similarity';
 import { describe, expect, it } from 'vitest';
-import { buildModel, similarities } from '../src';
+import { buildModel, MEAN_CENTRED_SETTINGS, similarities } from '../src';
 import { similarityView } from '../src/model';
 import { resolveSettings } from '../src/api';
 import { randomRecords, rng } from './helpers';
@@ -43,7 +43,11 @@ describe('cosine with IUF against compute-cosine-similarity', () => {
           return data.matrix[u].map((x, j) => (x === null ? 0 : f[j] * (center ? x - m : x)));
         };
         for (const a of [0, 3, 7]) {
-          const kin = similarities(model, `s${a}`, { center, minSimilarity: -2 });
+          const kin = similarities(model, `s${a}`, {
+            ...MEAN_CENTRED_SETTINGS,
+            centring: center ? 'studentMean' : 'none',
+            minSimilarity: -2,
+          });
           const got = new Map(kin.map((k) => [k.student, k.similarity]));
           for (let i = 0; i < data.matrix.length; i++) {
             if (i === a) continue;
@@ -67,11 +71,15 @@ describe('inverse user frequency against its formula ln(N / n_j)', () => {
       terms: students.map(() => '2024-FA'),
       grades: [3, 2, 4, 1, 2, 3],
     });
-    const f = similarityView(model, resolveSettings({})).f;
+    const f = similarityView(model, 'grade', resolveSettings(MEAN_CENTRED_SETTINGS)).f;
     expect(f[model.courseIndex.get('CORE 1')!]).toBe(0);
     expect(f[model.courseIndex.get('X 1')!]).toBeCloseTo(Math.log(4 / 1), 15);
     expect(f[model.courseIndex.get('X 2')!]).toBeCloseTo(Math.log(4), 15);
-    const off = similarityView(model, resolveSettings({ iuf: false })).f;
+    const off = similarityView(
+      model,
+      'grade',
+      resolveSettings({ ...MEAN_CENTRED_SETTINGS, iuf: false }),
+    ).f;
     expect([...off]).toEqual([1, 1, 1]);
   });
 });
@@ -87,10 +95,11 @@ describe('Pearson with IUF weights (method.md definition, computed here independ
     });
     for (const a of [0, 5]) {
       const got = new Map(
-        similarities(model, `s${a}`, { similarity: 'pearson', minSimilarity: -2 }).map((k) => [
-          k.student,
-          k.similarity,
-        ]),
+        similarities(model, `s${a}`, {
+          ...MEAN_CENTRED_SETTINGS,
+          similarity: 'pearson',
+          minSimilarity: -2,
+        }).map((k) => [k.student, k.similarity]),
       );
       const ma = meanOf(data.matrix[a]);
       for (let i = 0; i < 20; i++) {

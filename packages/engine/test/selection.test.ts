@@ -1,8 +1,15 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { buildModel, generateUniversity, resolveSettings, similarities, SIGNALS } from '../src';
+import {
+  buildModel,
+  generateUniversity,
+  MEAN_CENTRED_SETTINGS,
+  resolveSettings,
+  similarities,
+  SIGNALS,
+} from '../src';
 import type { RecordsInput, Settings } from '../src';
-import { Scorer, untakenCourses } from '../src/score';
+import { Scorer, targetSignal, untakenCourses } from '../src/score';
 import { randomRecords, rng } from './helpers';
 
 // The scorer picks neighbourhoods by a best-first walk over candidates plus bucketed column
@@ -24,7 +31,7 @@ function reference(
 
 function checkStudent(model: ReturnType<typeof buildModel>, student: string, settings: Settings) {
   const a = model.studentIndex.get(student) ?? -1;
-  const targets = untakenCourses(model, a, settings.similaritySignal);
+  const targets = untakenCourses(model, a, targetSignal(settings));
   const scorer = new Scorer(model);
   scorer.score(a, targets, settings, SIGNALS);
   const w = reference(model, student, settings);
@@ -98,7 +105,12 @@ describe('neighbourhood selection', () => {
         fc.constantFrom('cosine' as const, 'cosine' as const, 'pearson' as const),
         (seed, k, minSimilarity, similarity) => {
           const model = buildModel(universityWithClones(seed, 1500));
-          const settings = resolveSettings({ k, minSimilarity, similarity });
+          const settings = resolveSettings({
+            ...MEAN_CENTRED_SETTINGS,
+            k,
+            minSimilarity,
+            similarity,
+          });
           const keys = model.studentKeys;
           for (let x = 0; x < 4; x++) {
             const stats = checkStudent(model, keys[(seed + x * 997) % keys.length], settings);
@@ -127,7 +139,7 @@ describe('neighbourhood selection', () => {
         (seed, students, courses, k, minSimilarity) => {
           const data = randomRecords(rng(seed), students, courses, 0.5);
           const model = buildModel(data);
-          const settings = resolveSettings({ k, minSimilarity });
+          const settings = resolveSettings({ ...MEAN_CENTRED_SETTINGS, k, minSimilarity });
           for (const s of ['s0', 's1', 'nobody']) checkStudent(model, s, settings);
         },
       ),

@@ -1,5 +1,16 @@
-import type { SimilarityMeasure, UpdateModelSettingsRequest } from '@kinpath/contracts';
-import { MODEL_SETTINGS_LIMITS as LIMITS, SIMILARITY_MEASURES } from '@kinpath/contracts';
+import type {
+  CentringName,
+  SimilarityMeasure,
+  SimilaritySourceName,
+  UpdateModelSettingsRequest,
+} from '@kinpath/contracts';
+import {
+  CENTRINGS,
+  MODEL_SETTINGS_LIMITS as LIMITS,
+  SIMILARITY_MEASURES,
+  SIMILARITY_SOURCES,
+} from '@kinpath/contracts';
+import { applyDecorators } from '@nestjs/common';
 import { ApiProperty, ApiPropertyOptional } from '@nestjs/swagger';
 import {
   IsBoolean,
@@ -31,6 +42,34 @@ function NotAboveK(options?: ValidationOptions) {
   );
 }
 
+/** Pearson correlation centres on each student's own average by definition. */
+function PearsonCentring(options?: ValidationOptions) {
+  return ValidateBy(
+    {
+      name: 'pearsonCentring',
+      validator: {
+        validate: (value: unknown, args) =>
+          (args?.object as { similarity?: unknown }).similarity !== 'pearson' ||
+          value === 'studentMean',
+      },
+    },
+    options,
+  );
+}
+
+const SOURCE_LIST = SIMILARITY_SOURCES.join(', ');
+
+/** A baseline damping: a number from 0 to the limit. */
+function DampingField(name: string, example: number) {
+  const range = `${name} must be from 0 to ${LIMITS.damping.max}.`;
+  return applyDecorators(
+    ApiProperty({ minimum: LIMITS.damping.min, maximum: LIMITS.damping.max, example }),
+    IsNumber({ allowNaN: false, allowInfinity: false }, { message: `${name} must be a number.` }),
+    Min(LIMITS.damping.min, { message: range }),
+    Max(LIMITS.damping.max, { message: range }),
+  );
+}
+
 /** Every setting of method.md, each with its accepted range; errors say which and why. */
 export class UpdateModelSettingsDto implements UpdateModelSettingsRequest {
   @ApiProperty({ enum: SIMILARITY_MEASURES, example: 'cosine' })
@@ -41,9 +80,30 @@ export class UpdateModelSettingsDto implements UpdateModelSettingsRequest {
   @IsBoolean({ message: 'iuf must be true or false.' })
   iuf: boolean;
 
-  @ApiProperty({ description: "Centre each student's results on their own average." })
-  @IsBoolean({ message: 'center must be true or false.' })
-  center: boolean;
+  @ApiProperty({ enum: CENTRINGS, example: 'baseline' })
+  @IsIn(CENTRINGS, { message: `centring must be one of ${CENTRINGS.join(', ')}.` })
+  @PearsonCentring({ message: 'Pearson correlation needs centring studentMean.' })
+  centring: CentringName;
+
+  @ApiProperty({ enum: SIMILARITY_SOURCES, example: 'grade' })
+  @IsIn(SIMILARITY_SOURCES, { message: `gradeSimilarity must be one of ${SOURCE_LIST}.` })
+  gradeSimilarity: SimilaritySourceName;
+
+  @ApiProperty({ enum: SIMILARITY_SOURCES, example: 'satisfaction+enrolment' })
+  @IsIn(SIMILARITY_SOURCES, { message: `satisfactionSimilarity must be one of ${SOURCE_LIST}.` })
+  satisfactionSimilarity: SimilaritySourceName;
+
+  @DampingField('gradeDampingStudent', 1)
+  gradeDampingStudent: number;
+
+  @DampingField('gradeDampingCourse', 5)
+  gradeDampingCourse: number;
+
+  @DampingField('satisfactionDampingStudent', 5)
+  satisfactionDampingStudent: number;
+
+  @DampingField('satisfactionDampingCourse', 5)
+  satisfactionDampingCourse: number;
 
   @ApiProperty({ minimum: LIMITS.k.min, maximum: LIMITS.k.max, example: 30 })
   @IsInt({ message: 'k must be a whole number.' })
@@ -80,6 +140,32 @@ export class UpdateModelSettingsDto implements UpdateModelSettingsRequest {
     message: `significance must be at most ${LIMITS.significance.max}.`,
   })
   significance: number;
+
+  @ApiProperty({
+    minimum: LIMITS.shrinkage.min,
+    maximum: LIMITS.shrinkage.max,
+    example: 25,
+    description: 'Significance shrinkage beta: w * n / (n + beta); 0 turns it off.',
+  })
+  @IsNumber({ allowNaN: false, allowInfinity: false }, { message: 'shrinkage must be a number.' })
+  @Min(LIMITS.shrinkage.min, {
+    message: `shrinkage must be from 0 (off) to ${LIMITS.shrinkage.max}.`,
+  })
+  @Max(LIMITS.shrinkage.max, {
+    message: `shrinkage must be from 0 (off) to ${LIMITS.shrinkage.max}.`,
+  })
+  shrinkage: number;
+
+  @ApiProperty({
+    minimum: LIMITS.tieDigits.min,
+    maximum: LIMITS.tieDigits.max,
+    example: 12,
+    description: 'Significant digits of similarity when ranking kin; 0 ranks as computed.',
+  })
+  @IsInt({ message: 'tieDigits must be a whole number.' })
+  @Min(LIMITS.tieDigits.min, { message: `tieDigits must be from 0 to ${LIMITS.tieDigits.max}.` })
+  @Max(LIMITS.tieDigits.max, { message: `tieDigits must be from 0 to ${LIMITS.tieDigits.max}.` })
+  tieDigits: number;
 
   @ApiProperty({ minimum: LIMITS.alpha.min, maximum: LIMITS.alpha.max, example: 0.5 })
   @IsNumber({ allowNaN: false, allowInfinity: false }, { message: 'alpha must be a number.' })

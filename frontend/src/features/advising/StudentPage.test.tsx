@@ -39,7 +39,7 @@ describe('student page', { timeout: 60_000 }, () => {
     const facts = screen.getAllByRole('definition').map((d) => d.textContent);
     expect(facts).toEqual(expect.arrayContaining(['Active', '66.0', '3.21', '24']));
     expect(screen.getByRole('region', { name: ESTIMATE_CAUTION_TITLE })).toBeInTheDocument();
-    expect(screen.getByText(/high with at least 20 kin/)).toBeInTheDocument();
+    expect(screen.getByText(/high when the 80 % likely range/)).toBeInTheDocument();
   });
 
   it('shows eligible electives only by default, and why the others are closed', async () => {
@@ -64,14 +64,16 @@ describe('student page', { timeout: 60_000 }, () => {
     const { table } = await openStudent();
 
     const kin = rowFor(table, 'CMP 3110');
-    expect(kin).toHaveTextContent('3.41B+');
+    expect(kin).toHaveTextContent('3.41B+likely B- to A-');
+    // Kin strength beside the kin count tells sets of equally many kin apart.
+    expect(kin).toHaveTextContent('28strength 9.6');
     expect(within(kin).getByText('kin')).toBeInTheDocument();
     expect(within(kin).queryByText(/baseline/)).toBeNull();
 
     const baseline = rowFor(table, 'ART 2210');
     expect(within(baseline).getByText('baseline — too few kin')).toBeInTheDocument();
     const grade = within(baseline).getAllByRole('cell')[4];
-    expect(grade).toHaveTextContent('2.87B-baseline');
+    expect(grade).toHaveTextContent('2.87B-baselinelikely B- to A-');
     expect(grade.firstElementChild).toHaveStyle({ fontStyle: 'italic' });
     // Kin counts stand right beside the estimates they back.
     expect(within(baseline).getAllByRole('cell')[5]).toHaveTextContent(/^3$/);
@@ -114,7 +116,9 @@ describe('student page', { timeout: 60_000 }, () => {
       'aria-sort',
       'ascending',
     );
-    expect(within(table).getByRole('button', { name: 'Kin for grade' })).toBeInTheDocument();
+    expect(
+      within(table).getByRole('button', { name: 'Kin for grade, with kin strength' }),
+    ).toBeInTheDocument();
   });
 
   it('saves the shortlist with PUT and lists it with the estimates', async () => {

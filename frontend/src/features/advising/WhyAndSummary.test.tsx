@@ -33,12 +33,21 @@ describe('why panel', { timeout: 60_000 }, () => {
     const grade = await within(panel).findByRole('region', { name: /^Grade/ });
     expect(grade).toHaveTextContent(/28 past students whose course histories resemble/);
     expect(grade).toHaveTextContent('Kin count28');
+    expect(grade).toHaveTextContent('likely B- to A-: four in five past estimates');
+    expect(grade).toHaveTextContent('Kin strength9.60');
     expect(grade).toHaveTextContent('0.21 to 0.78');
     expect(grade).toHaveTextContent('0.44 grade points');
     expect(within(grade).getByRole('figure')).toHaveTextContent(/A: 9 students/);
 
-    const alike = within(panel).getByRole('region', { name: 'What made these students alike' });
+    const alike = within(panel).getByRole('region', {
+      name: 'What made these students alike (grade)',
+    });
     expect(within(alike).getAllByRole('listitem')[0]).toHaveTextContent('CMP 2210 Data Structures');
+    // Shares of the positive part: never above 100 %, and what pulled it down is said.
+    expect(within(alike).getAllByRole('listitem')[0]).toHaveTextContent(
+      '41% of the likeness built up',
+    );
+    expect(alike).toHaveTextContent('took 12% of it away again');
     expect(within(panel).getByRole('region', { name: 'The method' })).toHaveTextContent(
       /User-based collaborative filtering: cosine similarity with inverse user frequency/,
     );

@@ -20,6 +20,8 @@ const result = (
   kind: 'baseline',
   configuration: null,
   baseline: null,
+  margin: null,
+  ranges: null,
   ...extra,
 });
 
@@ -56,6 +58,33 @@ const configuration = (index: number) => ({ kind: 'configuration' as const, conf
 const row = (name: string) => screen.getByTestId(`result-${name}`);
 
 describe('backtest results', () => {
+  it('shows each configuration’s margin over the best baseline with its interval, and range coverage', () => {
+    render(
+      <BacktestResults
+        evaluation={backtest([
+          result('Defaults', 0.2917, 0.3736, {
+            ...configuration(0),
+            margin: { baseline: 'dampedBias', mae: 0.0294, low: 0.0241, high: 0.0349 },
+            ranges: {
+              calibrationTerm: '2026-SP',
+              coverage: 0.795,
+              meanWidth: 0.9,
+              byConfidence: {
+                high: { n: 221, coverage: 0.81 },
+                medium: { n: 2796, coverage: 0.79 },
+                low: { n: 0, coverage: null },
+              },
+            },
+          }),
+          result('Damped bias', 0.3211, 0.4042),
+        ])}
+      />,
+    );
+    expect(row('Defaults')).toHaveTextContent('+0.029+0.024 to +0.035');
+    expect(row('Defaults')).toHaveTextContent('79.5 %high 81.0 %, medium 79.0 %');
+    expect(row('Damped bias')).toHaveTextContent('——');
+  });
+
   it('marks the lowest MAE and RMSE in words, and offers a tested configuration as the settings', async () => {
     const onUse = vi.fn();
     render(
@@ -81,7 +110,7 @@ describe('backtest results', () => {
     expect(screen.queryByTestId('baseline-wins')).toBeNull();
     // The chart names every configuration and baseline.
     expect(
-      screen.getByText('Grade MAE per configuration and baseline', { exact: false }),
+      screen.getByText('Grade MAE per configuration (green) and baseline (grey)', { exact: false }),
     ).toBeInTheDocument();
 
     await userEvent

@@ -11,9 +11,33 @@ export const SETTING_TEXT: Record<keyof ModelSettings, { label: string; help: st
     label: 'Inverse user frequency (IUF)',
     help: 'Courses nearly everyone took, such as core courses, count for less when finding kin: they say little about who is alike.',
   },
-  center: {
+  centring: {
     label: 'Centring',
-    help: "Compares each result with the student's own average, so two strong students are not kin merely for both being strong. Pearson correlation always centres.",
+    help: "What each result is compared with before students are compared: the baseline (the overall average adjusted for the course and the student; the default), the student's own average, or nothing. Pearson correlation always uses the student's own average.",
+  },
+  gradeSimilarity: {
+    label: 'Kin for the grade found by',
+    help: 'Which results decide who is alike for the grade estimate: grades (the default), satisfaction answers, both, the courses taken (enrolment, withdrawals included), or satisfaction and enrolment together.',
+  },
+  satisfactionSimilarity: {
+    label: 'Kin for satisfaction found by',
+    help: 'Which results decide who is alike for the satisfaction estimate; the default, satisfaction and enrolment together, finds students who enjoyed and chose courses alike.',
+  },
+  gradeDampingStudent: {
+    label: 'Grade baseline: student damping',
+    help: "How many average results a student's own record is blended with before it moves the baseline; larger keeps short records nearer the average. Default 1.",
+  },
+  gradeDampingCourse: {
+    label: 'Grade baseline: course damping',
+    help: "The same for a course's results. Default 5.",
+  },
+  satisfactionDampingStudent: {
+    label: 'Satisfaction baseline: student damping',
+    help: "How many average answers a student's own answers are blended with before they move the baseline. Default 5.",
+  },
+  satisfactionDampingCourse: {
+    label: 'Satisfaction baseline: course damping',
+    help: "The same for a course's answers. Default 5.",
   },
   k: {
     label: 'k (kin per course)',
@@ -31,10 +55,32 @@ export const SETTING_TEXT: Record<keyof ModelSettings, { label: string; help: st
     label: 'Significance weighting',
     help: 'A similarity resting on fewer shared courses than this number is scaled down in proportion; 0 turns it off.',
   },
+  shrinkage: {
+    label: 'Shrinkage (beta)',
+    help: 'Each similarity is multiplied by n / (n + beta), n being the courses the two students share, so a likeness resting on few courses counts for less. 0 turns it off; default 25.',
+  },
+  tieDigits: {
+    label: 'Ranking precision (digits)',
+    help: 'Similarities are compared to this many significant digits when choosing kin, so equally similar students tie and the one first in order wins. 0 compares them as computed; default 12.',
+  },
   alpha: {
     label: 'Fit weight alpha',
     help: 'How much the predicted grade counts in the fit score; satisfaction counts for the rest. From 0 to 1; 0.5 weighs them equally. It does not change the estimates themselves.',
   },
+};
+
+export const CENTRING_WORDS: Record<ModelSettings['centring'], string> = {
+  baseline: 'on the baseline',
+  studentMean: "on the student's average",
+  none: 'off',
+};
+
+export const SOURCE_WORDS: Record<ModelSettings['gradeSimilarity'], string> = {
+  grade: 'Grades',
+  satisfaction: 'Satisfaction answers',
+  both: 'Grades and satisfaction',
+  enrolment: 'Courses taken (enrolment)',
+  'satisfaction+enrolment': 'Satisfaction and enrolment',
 };
 
 /** One line naming every setting, for confirmations and result tables. */
@@ -42,11 +88,16 @@ export function describeSettings(s: ModelSettings): string {
   return [
     s.similarity === 'cosine' ? 'cosine' : 'Pearson',
     `IUF ${s.iuf ? 'on' : 'off'}`,
-    `centring ${s.center ? 'on' : 'off'}`,
+    `centring ${CENTRING_WORDS[s.centring]}`,
+    `grade kin by ${s.gradeSimilarity}`,
+    `satisfaction kin by ${s.satisfactionSimilarity}`,
+    `damping grade ${s.gradeDampingStudent}/${s.gradeDampingCourse}, satisfaction ${s.satisfactionDampingStudent}/${s.satisfactionDampingCourse}`,
     `k ${s.k}`,
     `minimum kin ${s.minNeighbours}`,
     `minimum similarity ${s.minSimilarity}`,
     `significance ${s.significance === 0 ? 'off' : s.significance}`,
+    `shrinkage ${s.shrinkage === 0 ? 'off' : s.shrinkage}`,
+    `ranking digits ${s.tieDigits === 0 ? 'all' : s.tieDigits}`,
     `alpha ${s.alpha}`,
   ].join(', ');
 }

@@ -62,3 +62,56 @@ describe('the model settings form', { timeout: 40_000 }, () => {
     });
   });
 });
+
+describe('the backtest page', { timeout: 40_000 }, () => {
+  const TERMS = {
+    terms: [
+      { term: '2026-SP', records: 4193, offerings: 100 },
+      { term: '2026-FA', records: 4206, offerings: 100 },
+    ],
+    current: '2026-FA',
+    next: '2027-SP',
+  };
+  const DETAIL = {
+    id: 'b7',
+    status: 'finished',
+    progress: 1,
+    holdoutTerm: '2026-FA',
+    configurations: [{ ...DEFAULT_MODEL_SETTINGS, name: 'Current settings (version 1)' }],
+    settingsVersion: 1,
+    dataState: { latestImportId: null, latestImportAt: null, records: 50874, students: 2000 },
+    createdAt: '2026-12-02T09:00:00.000Z',
+    createdBy: 'registrar@halden.example',
+    startedAt: null,
+    finishedAt: '2026-12-02T09:01:00.000Z',
+    message: null,
+    results: [],
+    byDepartment: [],
+  };
+
+  it('shows the latest backtest without opening it, and a variant starts from the settings in force', async () => {
+    api = installFakeApi({
+      'GET /model/settings': () => ({ status: 200, data: V1 }),
+      'GET /terms': () => ({ status: 200, data: TERMS }),
+      'GET /model/evaluations': () => ({ status: 200, data: [DETAIL] }),
+      'GET /model/evaluations/b7': () => ({ status: 200, data: DETAIL }),
+    });
+    signInAs('registrar');
+    renderApp('/registrar/backtests');
+    await screen.findByRole('form', { name: 'New backtest' });
+    // The list, then the latest backtest itself, load one after the other.
+    expect(
+      await screen.findByRole('heading', { name: 'Results for 2026-FA' }, { timeout: 10_000 }),
+    ).toBeInTheDocument();
+
+    const form = within(await screen.findByRole('form', { name: 'New backtest' }));
+    const user = userEvent.setup();
+    const k = form.getByLabelText('k (kin per course)', { exact: false });
+    await user.clear(k);
+    await user.type(k, '12');
+    await user.click(form.getByRole('button', { name: 'Add a variant' }));
+    expect(form.getByLabelText('k (kin per course), configuration 2')).toHaveValue(
+      String(DEFAULT_MODEL_SETTINGS.k),
+    );
+  });
+});

@@ -31,6 +31,8 @@ export interface ElectiveFilters {
   eligibleOnly: boolean;
   basis: EstimateBasis | '';
   confidence: EstimateConfidence | '';
+  /** Kin strength of every estimate from kin at least this ('' for any). */
+  minStrength: string;
 }
 
 export const DEFAULT_FILTERS: ElectiveFilters = {
@@ -39,7 +41,17 @@ export const DEFAULT_FILTERS: ElectiveFilters = {
   eligibleOnly: true,
   basis: '',
   confidence: '',
+  minStrength: '',
 };
+
+/** The weakest kin strength among an elective's estimates from kin (Infinity with none). */
+export function weakestStrength(e: ElectiveEstimate): number {
+  let weakest = Infinity;
+  if (e.bases.grade === 'neighbours') weakest = Math.min(weakest, e.kinStrength.grade);
+  if (e.bases.satisfaction === 'neighbours')
+    weakest = Math.min(weakest, e.kinStrength.satisfaction);
+  return weakest;
+}
 
 const CONFIDENCE_ORDER: Record<EstimateConfidence, number> = { low: 0, medium: 1, high: 2 };
 const BASIS_ORDER: Record<EstimateBasis, number> = { none: 0, baseline: 1, neighbours: 2 };
@@ -50,7 +62,10 @@ export function applyFilters(electives: ElectiveEstimate[], filters: ElectiveFil
       (!filters.eligibleOnly || e.eligible) &&
       (!filters.department || e.department === filters.department) &&
       (!filters.basis || e.basis === filters.basis) &&
-      (!filters.confidence || e.confidence === filters.confidence),
+      (!filters.confidence || e.confidence === filters.confidence) &&
+      (filters.minStrength === '' ||
+        !(Number(filters.minStrength) >= 0) ||
+        (weakestStrength(e) !== Infinity && weakestStrength(e) >= Number(filters.minStrength))),
   );
 }
 
@@ -140,15 +155,21 @@ export function ElectivesTable({
         meta: { numeric: true },
         cell: ({ row }) => <PredictedGrade elective={row.original} />,
       }),
-      column.accessor((e) => e.neighbours.grade, {
+      // Sorted by kin strength: counts are mostly k, strength tells the sets apart.
+      column.accessor((e) => e.kinStrength.grade, {
         id: 'gradeKin',
         header: () => (
           <>
-            Kin<VisuallyHidden> for grade</VisuallyHidden>
+            Kin<VisuallyHidden> for grade, with kin strength</VisuallyHidden>
           </>
         ),
         meta: { numeric: true },
-        cell: (info) => <KinCount count={info.getValue()} />,
+        cell: ({ row }) => (
+          <KinCount
+            count={row.original.neighbours.grade}
+            strength={row.original.kinStrength.grade}
+          />
+        ),
       }),
       column.accessor((e) => orNone(e.predictedSatisfaction), {
         id: 'predictedSatisfaction',
@@ -157,15 +178,21 @@ export function ElectivesTable({
         meta: { numeric: true },
         cell: ({ row }) => <PredictedSatisfaction elective={row.original} />,
       }),
-      column.accessor((e) => e.neighbours.satisfaction, {
+      // Sorted by kin strength: counts are mostly k, strength tells the sets apart.
+      column.accessor((e) => e.kinStrength.satisfaction, {
         id: 'satisfactionKin',
         header: () => (
           <>
-            Kin<VisuallyHidden> for satisfaction</VisuallyHidden>
+            Kin<VisuallyHidden> for satisfaction, with kin strength</VisuallyHidden>
           </>
         ),
         meta: { numeric: true },
-        cell: (info) => <KinCount count={info.getValue()} />,
+        cell: ({ row }) => (
+          <KinCount
+            count={row.original.neighbours.satisfaction}
+            strength={row.original.kinStrength.satisfaction}
+          />
+        ),
       }),
       column.accessor((e) => orNone(e.fit), {
         id: 'fit',
@@ -273,6 +300,19 @@ export function ElectivesTable({
             </option>
           ))}
         </TextField>
+        <TextField
+          label="Kin strength at least"
+          value={filters.minStrength}
+          onChange={(event) => set('minStrength', event.target.value)}
+          error={filters.minStrength !== '' && !(Number(filters.minStrength) >= 0)}
+          helperText={
+            filters.minStrength !== '' && !(Number(filters.minStrength) >= 0)
+              ? 'Enter a number of 0 or more.'
+              : undefined
+          }
+          slotProps={{ htmlInput: { inputMode: 'decimal' }, inputLabel: { shrink: true } }}
+          sx={{ width: 170 }}
+        />
         <FormControlLabel
           control={
             <Switch

@@ -1,7 +1,12 @@
 import type { ReactNode } from 'react';
 import Box from '@mui/material/Box';
 import Chip from '@mui/material/Chip';
-import type { ElectiveEstimate, EstimateBasis, EstimateConfidence } from '@kinpath/contracts';
+import type {
+  ElectiveEstimate,
+  EstimateBasis,
+  EstimateConfidence,
+  LikelyRange,
+} from '@kinpath/contracts';
 import { BASIS_DESCRIPTIONS, BASIS_LABELS, CONFIDENCE_LABELS, fixed } from '../format';
 
 /** Text for screen readers only, e.g. which signal a "Kin" column counts for. */
@@ -28,7 +33,16 @@ export function VisuallyHidden({ children }: { children: ReactNode }) {
 }
 
 /** Baseline values are set in italics and say "baseline": never shown as if kin gave them. */
-function Estimate({ basis, children }: { basis: EstimateBasis; children: ReactNode }) {
+function Estimate({
+  basis,
+  children,
+  note,
+}: {
+  basis: EstimateBasis;
+  children: ReactNode;
+  /** A line under the value, e.g. the likely range. */
+  note?: ReactNode;
+}) {
   if (basis === 'none') {
     return (
       <Box component="span" sx={{ color: 'text.secondary' }}>
@@ -48,6 +62,28 @@ function Estimate({ basis, children }: { basis: EstimateBasis; children: ReactNo
           baseline
         </Box>
       ) : null}
+      {note}
+    </Box>
+  );
+}
+
+/** "likely B- to A-": the 80 % likely range in the estimate's own units. */
+export function likelyText(range: LikelyRange | null): string | null {
+  if (!range) return null;
+  return range.lowLabel === range.highLabel
+    ? `likely ${range.lowLabel}`
+    : `likely ${range.lowLabel} to ${range.highLabel}`;
+}
+
+function Likely({ range }: { range: LikelyRange | null }) {
+  const text = likelyText(range);
+  if (!text) return null;
+  return (
+    <Box
+      component="span"
+      sx={{ display: 'block', color: 'text.secondary', fontSize: '0.8em', fontStyle: 'normal' }}
+    >
+      {text}
     </Box>
   );
 }
@@ -55,7 +91,7 @@ function Estimate({ basis, children }: { basis: EstimateBasis; children: ReactNo
 export function PredictedGrade({ elective }: { elective: ElectiveEstimate }) {
   const basis = elective.predictedGrade === null ? 'none' : elective.bases.grade;
   return (
-    <Estimate basis={basis}>
+    <Estimate basis={basis} note={<Likely range={elective.likelyRange.grade} />}>
       {fixed(elective.predictedGrade, 2)}
       {elective.predictedGradeLetter ? (
         <Box component="span" sx={{ display: 'inline-block', minWidth: '2.2em', ml: 0.75 }}>
@@ -68,7 +104,11 @@ export function PredictedGrade({ elective }: { elective: ElectiveEstimate }) {
 
 export function PredictedSatisfaction({ elective }: { elective: ElectiveEstimate }) {
   const basis = elective.predictedSatisfaction === null ? 'none' : elective.bases.satisfaction;
-  return <Estimate basis={basis}>{fixed(elective.predictedSatisfaction, 2)}</Estimate>;
+  return (
+    <Estimate basis={basis} note={<Likely range={elective.likelyRange.satisfaction} />}>
+      {fixed(elective.predictedSatisfaction, 2)}
+    </Estimate>
+  );
 }
 
 const FIT_BASIS_NOTE = { grade: 'grade only', satisfaction: 'satisfaction only' } as const;
@@ -89,11 +129,20 @@ export function Fit({ elective }: { elective: ElectiveEstimate }) {
   );
 }
 
-/** The kin count beside each estimate; a count under the minimum is why the baseline served. */
-export function KinCount({ count }: { count: number }) {
+/**
+ * The kin count beside each estimate (a count under the minimum is why the baseline served),
+ * with the kin strength when given: the kin's summed similarity, so two sets of 30 kin that
+ * are not equally alike are told apart.
+ */
+export function KinCount({ count, strength }: { count: number; strength?: number }) {
   return (
     <Box component="span" className="kp-figures" sx={{ color: 'text.secondary' }}>
       {count}
+      {strength !== undefined && strength > 0 ? (
+        <Box component="span" sx={{ display: 'block', fontSize: '0.8em' }}>
+          strength {fixed(strength, 1)}
+        </Box>
+      ) : null}
     </Box>
   );
 }

@@ -13,8 +13,8 @@ import type { ElectiveEstimate, ElectiveExplanation, SignalExplanation } from '@
 import { KINPATH_COLOURS } from '../../../app/theme';
 import { httpStatus } from '../../../lib/api-client';
 import { useExplanation } from '../api/students';
-import { BASIS_DESCRIPTIONS, fixed, plural } from '../format';
-import { VisuallyHidden } from './EstimateCells';
+import { BASIS_DESCRIPTIONS, CONFIDENCE_LABELS, fixed, plural } from '../format';
+import { likelyText, VisuallyHidden } from './EstimateCells';
 
 interface WhyDrawerProps {
   studentRef: string;
@@ -38,7 +38,7 @@ function summary(signal: keyof typeof SIGNALS, s: SignalExplanation): string {
       s.kinCount === 1 ? 'has' : 'have'
     } a ${what} in this course, too few to lean on. The estimate comes from the course's average and this student's own record instead (the baseline).`;
   }
-  return `${plural(s.kinCount, 'past student')} whose course histories resemble this student's took this course. The estimate is their ${what}, each relative to their own average, weighted by how alike they are, added to this student's own average.`;
+  return `${plural(s.kinCount, 'past student')} whose course histories resemble this student's took this course. The estimate starts from what this student's record leads one to expect and adds how the kin's ${what} compared with what was expected of them, the more alike counting more.`;
 }
 
 function OutcomeChart({
@@ -140,8 +140,22 @@ function SignalSection({
       >
         <dt>Basis</dt>
         <dd>{BASIS_DESCRIPTIONS[s.basis]}</dd>
+        <dt>Likely range</dt>
+        <dd>
+          {s.likelyRange
+            ? `${likelyText(s.likelyRange)}: four in five past estimates like this one were this close`
+            : '—'}
+        </dd>
+        <dt>Confidence</dt>
+        <dd>{CONFIDENCE_LABELS[s.confidence]}</dd>
         <dt>Kin count</dt>
         <dd>{s.kinCount}</dd>
+        <dt>Kin strength</dt>
+        <dd>
+          {s.basis === 'neighbours'
+            ? `${fixed(s.kinStrength, 2)}: the kin's similarities added up (30 identical kin would give 30)`
+            : '—'}
+        </dd>
         <dt>Similarity</dt>
         <dd>
           {s.similarityRange
@@ -160,32 +174,32 @@ function SignalSection({
   );
 }
 
-function SharedCourses({ explanation }: { explanation: ElectiveExplanation }) {
+function SharedCourses({ signal, s }: { signal: keyof typeof SIGNALS; s: SignalExplanation }) {
   const headingId = useId();
-  // Both signals rest on the same similarities; the grade list is the one that drove the match.
-  const courses =
-    explanation.grade.sharedCourses.length > 0
-      ? explanation.grade.sharedCourses
-      : explanation.satisfaction.sharedCourses;
+  const courses = s.sharedCourses;
   return (
     <Box component="section" aria-labelledby={headingId} sx={{ mt: 2.5 }}>
       <Typography id={headingId} variant="h3" sx={{ mb: 0.75 }}>
-        What made these students alike
+        What made these students alike ({SIGNALS[signal].name.toLowerCase()})
       </Typography>
       {courses.length === 0 ? (
         <Typography sx={{ color: 'text.secondary' }}>No shared courses to show.</Typography>
       ) : (
         <>
           <Typography sx={{ mb: 0.75 }}>
-            Courses this student and the kin took, where they did alike relative to their own
-            averages; the first counted most.
+            Courses this student and the kin shared where they did alike, with each course&apos;s
+            share of the likeness those courses built up (all such courses together make 100%); the
+            first counted most.
+            {s.againstShare > 0
+              ? ` Courses where they differed took ${fixed(s.againstShare * 100, 0)}% of it away again.`
+              : ''}
           </Typography>
           <Box component="ol" sx={{ m: 0, pl: 3 }}>
             {courses.map((c) => (
               <li key={c.courseCode}>
                 <strong>{c.courseCode}</strong> {c.title}{' '}
                 <Box component="span" className="kp-figures" sx={{ color: 'text.secondary' }}>
-                  ({fixed(c.contribution * 100, 0)}% of the likeness)
+                  ({fixed(c.contribution * 100, 0)}% of the likeness built up)
                 </Box>
               </li>
             ))}
@@ -261,7 +275,8 @@ export function WhyDrawer({ studentRef, elective, onClose }: WhyDrawerProps) {
         <>
           <SignalSection signal="grade" explanation={explanation.data} />
           <SignalSection signal="satisfaction" explanation={explanation.data} />
-          <SharedCourses explanation={explanation.data} />
+          <SharedCourses signal="grade" s={explanation.data.grade} />
+          <SharedCourses signal="satisfaction" s={explanation.data.satisfaction} />
           <Method explanation={explanation.data} />
         </>
       ) : null}

@@ -94,6 +94,11 @@ function elective(overrides: Partial<ElectiveEstimate> & { courseCode: string })
     basis: 'neighbours',
     bases: { grade: 'neighbours', satisfaction: 'neighbours' },
     neighbours: { grade: 24, satisfaction: 21 },
+    kinStrength: { grade: 9.6, satisfaction: 6.3 },
+    likelyRange: {
+      grade: { low: 2.7, high: 3.55, lowLabel: 'B-', highLabel: 'A-' },
+      satisfaction: { low: 3.0, high: 4.6, lowLabel: '3.0', highLabel: '4.6' },
+    },
     ...overrides,
   };
 }
@@ -120,6 +125,7 @@ export const ELECTIVES: ElectiveEstimate[] = [
     basis: 'baseline',
     bases: { grade: 'baseline', satisfaction: 'baseline' },
     neighbours: { grade: 3, satisfaction: 2 },
+    kinStrength: { grade: 0, satisfaction: 0 },
   }),
   elective({
     courseCode: 'HIS 2040',
@@ -134,6 +140,8 @@ export const ELECTIVES: ElectiveEstimate[] = [
     basis: 'none',
     bases: { grade: 'none', satisfaction: 'none' },
     neighbours: { grade: 0, satisfaction: 0 },
+    kinStrength: { grade: 0, satisfaction: 0 },
+    likelyRange: { grade: null, satisfaction: null },
   }),
   elective({
     courseCode: 'CMP 3420',
@@ -148,6 +156,7 @@ export const ELECTIVES: ElectiveEstimate[] = [
     fit: 64.2,
     confidence: 'medium',
     neighbours: { grade: 11, satisfaction: 9 },
+    kinStrength: { grade: 2.1, satisfaction: 1.4 },
   }),
   elective({
     courseCode: 'MTH 1120',
@@ -162,7 +171,7 @@ export const ELECTIVES_RESPONSE: ElectivesResponse = {
   term: '2026-SP',
   settingsVersion: 3,
   confidenceRule:
-    'high with at least 20 kin and a spread under 0.6; medium with at least 10 kin; otherwise low.',
+    'high when the 80 % likely range spans at most 20 % of the scale, medium up to 35 %, low beyond.',
   modelBuiltAt: '2026-02-20T08:00:00.000Z',
   electives: ELECTIVES,
 };
@@ -193,6 +202,10 @@ function signal(overrides: Partial<SignalExplanation>): SignalExplanation {
       { courseCode: 'CMP 2210', title: 'Data Structures', contribution: 0.41 },
       { courseCode: 'MTH 1120', title: 'Discrete Structures', contribution: 0.27 },
     ],
+    againstShare: 0.12,
+    kinStrength: 9.6,
+    likelyRange: { low: 2.7, high: 3.55, lowLabel: 'B-', highLabel: 'A-' },
+    confidence: 'medium',
     ...overrides,
   };
 }

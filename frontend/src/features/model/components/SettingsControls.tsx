@@ -7,7 +7,7 @@ import MenuItem from '@mui/material/MenuItem';
 import TextField from '@mui/material/TextField';
 import { useId } from 'react';
 import { checkNumber, type NumberField, type SettingsFieldValues } from '../settings-fields';
-import { SETTING_TEXT } from '../settings-words';
+import { SETTING_TEXT, SOURCE_WORDS } from '../settings-words';
 
 interface SettingsControlsProps<T extends FieldValues> {
   control: Control<T>;
@@ -26,7 +26,34 @@ const NUMBER_FIELDS: NumberField[] = [
   'minNeighbours',
   'minSimilarity',
   'significance',
+  'shrinkage',
+  'tieDigits',
+  'gradeDampingStudent',
+  'gradeDampingCourse',
+  'satisfactionDampingStudent',
+  'satisfactionDampingCourse',
   'alpha',
+];
+
+const WHOLE_FIELDS: NumberField[] = ['k', 'minNeighbours', 'significance', 'tieDigits'];
+
+/** The choices of each select besides similarity. */
+const SELECTS: {
+  field: 'centring' | 'gradeSimilarity' | 'satisfactionSimilarity';
+  options: [string, string][];
+}[] = [
+  {
+    field: 'centring',
+    options: [
+      ['baseline', 'On the baseline'],
+      ['studentMean', "On the student's own average"],
+      ['none', 'None'],
+    ],
+  },
+  ...(['gradeSimilarity', 'satisfactionSimilarity'] as const).map((field) => ({
+    field,
+    options: Object.entries(SOURCE_WORDS) as [string, string][],
+  })),
 ];
 
 /** Every model setting as a control; each explains itself when `explain` is on. */
@@ -81,7 +108,33 @@ export function SettingsControls<T extends FieldValues>({
           </TextField>
         )}
       />
-      {(['iuf', 'center'] as const).map((field) => (
+      {SELECTS.map(({ field, options }) => (
+        <Controller
+          key={field}
+          control={control}
+          name={name(field)}
+          render={({ field: f }) => (
+            <TextField
+              select
+              size="small"
+              label={label(field)}
+              helperText={help(field)}
+              value={f.value}
+              onChange={f.onChange}
+              onBlur={f.onBlur}
+              name={f.name}
+              inputRef={f.ref}
+            >
+              {options.map(([value, text]) => (
+                <MenuItem key={value} value={value}>
+                  {text}
+                </MenuItem>
+              ))}
+            </TextField>
+          )}
+        />
+      ))}
+      {(['iuf'] as const).map((field) => (
         <Controller
           key={field}
           control={control}
@@ -142,10 +195,7 @@ export function SettingsControls<T extends FieldValues>({
               }
               slotProps={{
                 htmlInput: {
-                  inputMode:
-                    field === 'k' || field === 'minNeighbours' || field === 'significance'
-                      ? 'numeric'
-                      : 'decimal',
+                  inputMode: WHOLE_FIELDS.includes(field) ? 'numeric' : 'decimal',
                   'aria-required': true,
                 },
               }}

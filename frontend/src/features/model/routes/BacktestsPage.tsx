@@ -52,7 +52,9 @@ export function BacktestsPage() {
   const settings = useModelSettings();
   const terms = useTerms();
   const [params, setParams] = useSearchParams();
-  const selected = params.get('backtest');
+  const past = useEvaluations();
+  // Without a backtest in the address (a fresh visit or a reload), the latest one is shown.
+  const selected = params.get('backtest') ?? past.data?.[0]?.id ?? null;
   const evaluation = useEvaluation(selected);
 
   return (
@@ -155,10 +157,10 @@ function NewBacktest({
     }
   });
 
+  // A variant starts from the settings in force, as the form says, not from the last row.
   const addVariant = () => {
     const rows = getValues('configurations');
-    const last = rows[rows.length - 1];
-    list.append({ ...last, name: `Variant ${rows.length + 1}` });
+    list.append({ ...toFieldValues(current.settings), name: `Variant ${rows.length + 1}` });
   };
 
   if (choices.length === 0) {
