@@ -31,5 +31,6 @@ export {
   Z80,
 } from './forecast';
 export type { ForecastStudent, CourseDemand } from './forecast';
+export * as outlook from './outlook';
 export { generateUniversity, registrarTermOrder } from './generator';
 export type { University, UniversityOptions } from './generator';
