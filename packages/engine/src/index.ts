@@ -20,17 +20,6 @@ export type { BatchRequest, BatchOptions, StudentScores, CompactSignal } from '.
 export { BASIS_NAMES, CONFIDENCE_NAMES } from './score';
 export { evaluate, HOLDOUT_MIN_EARLIER_RECORDS } from './evaluate';
 export type { EvaluationPlan, EvaluationReport, Metrics, SignalEvaluation } from './evaluate';
-export {
-  choiceProbabilities,
-  expectedLoad,
-  forecastDemand,
-  interval,
-  wape,
-  calibrateBeta,
-  BETA_GRID,
-  Z80,
-} from './forecast';
-export type { ForecastStudent, CourseDemand } from './forecast';
 export * as outlook from './outlook';
 export { generateUniversity, registrarTermOrder } from './generator';
 export type { University, UniversityOptions } from './generator';

@@ -510,17 +510,25 @@ export function regressLoad(
   return b.every(Number.isFinite) ? Float64Array.from(b) : null;
 }
 
+/** How far a run is: `done` of `total` steps, and the step about to start. */
+export interface OutlookProgress {
+  done: number;
+  total: number;
+  step: string;
+}
+
 /**
  * The outlook for `next` over `population` (its active students) with its rolling-origin
  * backtests: the `backtests` latest completed terms before it, each with q calibrated on the
- * three backtests before it (so `calibration` earlier terms are forecast too).
+ * three backtests before it (so `calibration` earlier terms are forecast too). Yields before
+ * each term, so a caller can report progress or let other work run.
  */
-export function runOutlook(
+export function* outlookSteps(
   data: OutlookData,
   next: number,
   population: Int32Array,
   options: OutlookOptions = {},
-): OutlookResult {
+): Generator<OutlookProgress, OutlookResult> {
   const outlook = new Outlook(data, options);
   const reported = options.backtests ?? 3;
   const extra = options.calibration ?? 3;
@@ -528,8 +536,9 @@ export function runOutlook(
   const past = [...completed.slice(Math.max(0, completed.length - reported - extra))];
   const total = past.length + 1;
   const done: TermOutlook[] = [];
-  past.forEach((term, i) => {
-    options.onProgress?.(i, total, `backtest ${term}`);
+  for (let i = 0; i < past.length; i++) {
+    const term = past[i];
+    yield { done: i, total, step: `backtest ${term}` };
     const previous = done.slice(-3);
     const q = previous.length ? calibratedQ(previous.map(asBacktest)) : Z80;
     done.push(
@@ -544,8 +553,8 @@ export function runOutlook(
     // Later forecasts train on later terms only.
     const window = outlook.trainingTermsOf(past[i + 1] ?? next);
     if (window.length) outlook.forgetBefore(window[0]);
-  });
-  options.onProgress?.(past.length, total, 'forecast');
+  }
+  yield { done: past.length, total, step: 'forecast' };
   const previous = done.slice(-3);
   const courses = outlook.offered(next);
   const forecast = courses.length
@@ -558,9 +567,23 @@ export function runOutlook(
         options.onLiveStudent,
       )
     : null;
-  options.onProgress?.(total, total, 'done');
   const split = Math.max(0, done.length - reported);
   return { forecast, backtests: done.slice(split), calibration: done.slice(0, split) };
+}
+
+/** outlookSteps run to the end in one go. */
+export function runOutlook(
+  data: OutlookData,
+  next: number,
+  population: Int32Array,
+  options: OutlookOptions = {},
+): OutlookResult {
+  const steps = outlookSteps(data, next, population, options);
+  for (;;) {
+    const step = steps.next();
+    if (step.done) return step.value;
+    options.onProgress?.(step.value.done, step.value.total, step.value.step);
+  }
 }
 
 function asBacktest(t: TermOutlook) {
