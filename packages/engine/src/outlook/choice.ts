@@ -11,8 +11,18 @@ export const PENALTY = 1e-4;
 export interface ChoiceSet {
   features: number;
   from: Int32Array;
-  x: Float64Array;
+  /** Features of every alternative, row-major; or, when absent, written on demand by `fill`. */
+  x?: Float64Array;
+  /** Writes the features of alternatives a..b (one situation) into `out` from 0. */
+  fill?: (a: number, b: number, out: Float64Array) => void;
   chosen: Float64Array;
+}
+
+/** The features of situation i's alternatives, and the row of its first one in them. */
+function featuresOf(set: ChoiceSet, a: number, b: number, scratch: Float64Array): Float64Array {
+  if (set.x) return set.x;
+  set.fill!(a, b, scratch);
+  return scratch;
 }
 
 export interface Objective {
@@ -49,9 +59,10 @@ export function objective(
   let value = 0;
   let observations = 0;
   let v = new Float64Array(64);
+  let scratch = new Float64Array(64 * d);
   for (const set of sets) {
     if (set.features !== d) throw new Error('The choice sets and θ differ in length.');
-    const { from, x, chosen } = set;
+    const { from, chosen } = set;
     for (let i = 0; i + 1 < from.length; i++) {
       const a = from[i];
       const b = from[i + 1];
@@ -59,10 +70,14 @@ export function objective(
       for (let c = a; c < b; c++) n += chosen[c];
       if (n === 0 || b === a) continue;
       if (v.length < b - a) v = new Float64Array(2 * (b - a));
+      if (scratch.length < (b - a) * d) scratch = new Float64Array(2 * (b - a) * d);
+      const x = featuresOf(set, a, b, scratch);
+      // Rows of x: absolute with stored features, from the situation's first when filled.
+      const base = set.x ? 0 : a;
       let max = -Infinity;
       for (let c = a; c < b; c++) {
         let s = 0;
-        for (let j = 0; j < d; j++) s += theta[j] * x[c * d + j];
+        for (let j = 0; j < d; j++) s += theta[j] * x[(c - base) * d + j];
         v[c - a] = s;
         if (s > max) max = s;
       }
@@ -73,7 +88,7 @@ export function objective(
       if (withHessian) second.fill(0);
       for (let c = a; c < b; c++) {
         const pi = v[c - a] / sum;
-        const o = c * d;
+        const o = (c - base) * d;
         if (chosen[c] > 0) {
           let s = 0;
           for (let j = 0; j < d; j++) {
@@ -209,10 +224,12 @@ export function choiceProbabilities(
   const a = set.from[situation];
   const b = set.from[situation + 1];
   const out = new Float64Array(b - a);
+  const x = featuresOf(set, a, b, new Float64Array((b - a) * d));
+  const base = set.x ? 0 : a;
   let max = -Infinity;
   for (let c = a; c < b; c++) {
     let s = 0;
-    for (let j = 0; j < d; j++) s += theta[j] * set.x[c * d + j];
+    for (let j = 0; j < d; j++) s += theta[j] * x[(c - base) * d + j];
     out[c - a] = s;
     if (s > max) max = s;
   }

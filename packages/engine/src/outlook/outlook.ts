@@ -104,29 +104,19 @@ export interface OutlookResult {
   calibration: TermOutlook[];
 }
 
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
 /** A seeded sample of `size` students of `from` (all of them when fewer), kept in their order. */
 export function sampleStudents(from: Int32Array, size: number, seed: number): Int32Array {
   if (from.length <= size) return from;
-  const pool = Int32Array.from(from);
-  const random = mulberry32(seed);
-  for (let i = 0; i < size; i++) {
-    const j = i + Math.floor(random() * (pool.length - i));
-    const t = pool[i];
-    pool[i] = pool[j];
-    pool[j] = t;
-  }
-  return pool.subarray(0, size).sort();
+  // The students with the smallest seeded hashes: a fixed, spread-out sample.
+  const hash = (s: number) => {
+    let h = Math.imul(s ^ seed, 0x9e3779b1);
+    h ^= h >>> 16;
+    h = Math.imul(h, 0x85ebca6b);
+    return (h ^ (h >>> 13)) >>> 0;
+  };
+  const keyed = Array.from(from, (s) => [hash(s), s] as const);
+  keyed.sort((a, b) => a[0] - b[0] || a[1] - b[1]);
+  return Int32Array.from(keyed.slice(0, size), (k) => k[1]).sort();
 }
 
 interface TrainingTerm {
@@ -151,6 +141,7 @@ export class Outlook {
   private readonly passed: Uint8Array;
   private readonly passedList: Int32Array;
   private passedCount = 0;
+  private lastTheta: Float64Array | null = null;
 
   constructor(
     readonly data: OutlookData,
@@ -248,8 +239,14 @@ export class Outlook {
     );
     const g = this.meanElectives(h);
     const from = new Int32Array(students.length + 1);
-    let x = new Float64Array(Math.max(1, students.length * courses.length * d));
-    let chosen = new Float64Array(Math.max(1, students.length * courses.length));
+    // Compact pairs (course and prerequisite flag; the student's groups per situation): the
+    // features are looked up from the take-up table whenever the fit needs them.
+    const capacity = Math.max(1, students.length * courses.length);
+    let course = new Int32Array(capacity);
+    let unmet = new Uint8Array(capacity);
+    let chosen = new Float64Array(capacity);
+    let extraValues = this.options.extraFeature ? new Float32Array(capacity) : null;
+    const group = new Int32Array(students.length * 3);
     const loadX = new Float64Array(students.length * 4);
     const loadY = new Float64Array(students.length);
     let loadRows = 0;
@@ -262,6 +259,9 @@ export class Outlook {
       const p = data.studentProgramme[s];
       const k = stageOf(st, s, h);
       const y = yearOf(data, s, h);
+      group[i * 3] = p;
+      group[i * 3 + 1] = k;
+      group[i * 3 + 2] = y;
       this.markPassed(s, h);
       for (let r = data.recordFrom[s]; r < data.recordFrom[s + 1]; r++) {
         if (data.recordTerm[r] === h) enrolled[data.recordCourse[r]] = 1;
@@ -272,9 +272,9 @@ export class Outlook {
       let picked = 0;
       for (let j = 0; j < n; j++) {
         const c = set[j];
-        const u = prerequisiteMet(data.prerequisites[c], this.passed) ? 0 : 1;
-        writeFeatures(table, data.courseLevel[c], c, p, k, y, u, x, pairs * d);
-        if (d > BASE_FEATURES) x[pairs * d + BASE_FEATURES] = extra[j];
+        course[pairs] = c;
+        unmet[pairs] = prerequisiteMet(data.prerequisites[c], this.passed) ? 0 : 1;
+        if (extraValues) extraValues[pairs] = extra[j];
         chosen[pairs] = enrolled[c];
         picked += enrolled[c];
         pairs++;
@@ -289,9 +289,34 @@ export class Outlook {
       }
     });
     from[students.length] = pairs;
-    x = x.slice(0, pairs * d);
+    course = course.slice(0, pairs);
+    unmet = unmet.slice(0, pairs);
     chosen = chosen.slice(0, pairs);
-    const term: TrainingTerm = { set: { features: d, from, x, chosen }, loadX, loadY, loadRows };
+    if (extraValues) extraValues = extraValues.slice(0, pairs);
+    // Situation of each pair's start, found by walking `from` as fill is called in order.
+    const situationOf = (a: number) => {
+      let lo = 0;
+      let hi = students.length - 1;
+      while (lo < hi) {
+        const mid = (lo + hi + 1) >> 1;
+        if (from[mid] <= a) lo = mid;
+        else hi = mid - 1;
+      }
+      return lo;
+    };
+    const level = data.courseLevel;
+    const fill = (a: number, b: number, out: Float64Array) => {
+      const i = situationOf(a);
+      const p = group[i * 3];
+      const k = group[i * 3 + 1];
+      const y = group[i * 3 + 2];
+      for (let c = a; c < b; c++) {
+        const at = (c - a) * d;
+        writeFeatures(table, level[course[c]], course[c], p, k, y, unmet[c], out, at);
+        if (extraValues) out[at + BASE_FEATURES] = extraValues[c];
+      }
+    };
+    const term: TrainingTerm = { set: { features: d, from, fill, chosen }, loadX, loadY, loadRows };
     this.training.set(h, term);
     return term;
   }
@@ -328,10 +353,13 @@ export class Outlook {
     const d = this.features;
     const terms = this.trainingTermsOf(term);
     const sets = [...terms].map((h) => this.trainingTerm(h));
+    // Each fit starts from the previous term's θ: neighbouring terms differ little.
     const fitted = fitChoice(
       sets.map((t) => t.set),
       d,
+      this.lastTheta ? { start: this.lastTheta } : {},
     );
+    if (fitted.observations > 0) this.lastTheta = fitted.theta;
     const theta =
       fitted.observations > 0
         ? fitted.theta
@@ -340,16 +368,24 @@ export class Outlook {
     const sum = new Float64Array(d);
     const sq = new Float64Array(d);
     let n = 0;
+    let scratch = new Float64Array(d);
     for (const t of sets) {
-      const pairs = t.set.chosen.length;
-      for (let i = 0; i < pairs; i++) {
-        for (let j = 0; j < d; j++) {
-          const v = t.set.x[i * d + j];
-          sum[j] += v;
-          sq[j] += v * v;
+      const { from } = t.set;
+      for (let i = 0; i + 1 < from.length; i++) {
+        const a = from[i];
+        const b = from[i + 1];
+        if (scratch.length < (b - a) * d) scratch = new Float64Array((b - a) * d);
+        const x = t.set.x ? t.set.x.subarray(a * d, b * d) : scratch;
+        if (!t.set.x) t.set.fill!(a, b, scratch);
+        for (let c = 0; c < b - a; c++) {
+          for (let j = 0; j < d; j++) {
+            const v = x[c * d + j];
+            sum[j] += v;
+            sq[j] += v * v;
+          }
         }
+        n += b - a;
       }
-      n += pairs;
     }
     const influence = Float64Array.from({ length: d }, (_, j) =>
       n > 1 ? Math.abs(theta[j]) * Math.sqrt(Math.max(0, sq[j] / n - (sum[j] / n) ** 2)) : 0,

@@ -166,6 +166,12 @@ export interface TakeUpTable {
   rck: Float64Array;
   rcpk: Float64Array;
   rly: Float64Array;
+  /** Natural logs of the rates, for the features. */
+  lrc: Float64Array;
+  lrcp: Float64Array;
+  lrck: Float64Array;
+  lrcpk: Float64Array;
+  lrly: Float64Array;
 }
 
 /** The HISTORY_TERMS latest record terms before t. */
@@ -283,6 +289,11 @@ export function takeUpTable(
     rck,
     rcpk,
     rly,
+    lrc: rc.map(Math.log),
+    lrcp: rcp.map(Math.log),
+    lrck: rck.map(Math.log),
+    lrcpk: rcpk.map(Math.log),
+    lrly: rly.map(Math.log),
   };
 }
 
@@ -305,12 +316,12 @@ export function writeFeatures(
   at: number,
 ): void {
   const P = table.programmes;
-  const rc = table.rc[c];
-  const rck = table.rck[c * STAGES + k];
-  out[at] = Math.log(rc);
-  out[at + 1] = Math.log(table.rcp[c * P + p] / rc);
-  out[at + 2] = Math.log(rck / rc);
-  out[at + 3] = Math.log(table.rcpk[(c * P + p) * STAGES + k] / rck);
-  out[at + 4] = Math.log(table.rly[level * YEARS + y]);
+  const lrc = table.lrc[c];
+  const lrck = table.lrck[c * STAGES + k];
+  out[at] = lrc;
+  out[at + 1] = table.lrcp[c * P + p] - lrc;
+  out[at + 2] = lrck - lrc;
+  out[at + 3] = table.lrcpk[(c * P + p) * STAGES + k] - lrck;
+  out[at + 4] = table.lrly[level * YEARS + y];
   out[at + 5] = u;
 }
