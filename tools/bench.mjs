@@ -3,7 +3,7 @@
 // a time). Runs on the test cluster in databases of its own and a server with
 // the Halden Reach demo on port 3399.
 //
-//   npm run bench [-- --only engine,imports,electives,scoring,load,electives-full] [--full]
+//   npm run bench [-- --only engine,imports,electives,outlook,load,electives-full] [--full]
 import { join } from 'node:path';
 import { spawnSync } from 'node:child_process';
 import { ensureDatabase, pgEnv, startCluster } from './db.mjs';
@@ -40,15 +40,13 @@ function step(name, command, commandArgs, env = {}) {
 const bench = (file) => join(repoRoot, 'backend', 'bench', file);
 step('engine', 'npm', ['run', 'bench', '--silent', '-w', '@kinpath/engine']);
 step('imports', process.execPath, [bench('imports.bench.mjs')], pgEnv(db, 'postgres'));
-// The full cohort (200,000 students, 40,000 active) takes far longer than the rest together
-// today; `--full` runs it, otherwise a 50,000-student university with 1,000 active students.
-const scoringScale = args.includes('--full')
-  ? []
-  : ['--students', '50000', '--active', '1000', '--chunk', '250'];
+// The whole outlook with its three backtests on the engine benchmark's university: 200,000
+// students, 40,000 active, 3,000 electives offered every term (`--full`), otherwise 50,000.
+const outlookScale = args.includes('--full') ? [] : ['--students', '50000', '--active', '10000'];
 step(
-  'scoring',
+  'outlook',
   process.execPath,
-  [bench('scoring.bench.mjs'), ...scoringScale],
+  ['--expose-gc', bench('outlook.bench.mjs'), ...outlookScale],
   pgEnv(db, 'postgres'),
 );
 

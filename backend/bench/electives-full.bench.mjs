@@ -154,9 +154,9 @@ async function startOnDatabase(db) {
       KINPATH_DEMO: 'off',
       KINPATH_ADMIN_EMAIL: ADMIN,
       KINPATH_ADMIN_PASSWORD: password,
-      // Cohort scoring of 40,000 students would hold a core for many minutes; the route
-      // measured here does not use it.
-      KINPATH_SCORING_PROCESSES: '0',
+      // The outlook run of 40,000 students would hold a core meanwhile; the route measured
+      // here does not use it.
+      KINPATH_OUTLOOK_PROCESSES: '0',
       KINPATH_LOG_LEVEL: 'log',
       KINPATH_LOG_FORMAT: 'json',
       KINPATH_STATIC_DIR: join(repoRoot, 'frontend', 'dist'),

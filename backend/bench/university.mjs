@@ -65,10 +65,16 @@ export function activeStudents(uni, count) {
  * Writes `uni` (from engine.generateUniversity) through `client`, a pg client connected to a
  * migrated, empty database. `active` students (see activeStudents) are active, the rest
  * graduated; `offered` ('all' or a count) electives are offered in the term after the
- * last one with records; `pseudonym(studentNumber)` gives each student's pseudonym.
+ * last one with records; `pseudonym(studentNumber)` gives each student's pseudonym. With
+ * `pastOfferings`, every elective with a record in a past term is offered in that term too
+ * (what the outlook's backtests need).
  * Answers that term, the offered course codes and the active students' numbers.
  */
-export async function loadUniversity(client, uni, { active, offered = 'all', pseudonym }) {
+export async function loadUniversity(
+  client,
+  uni,
+  { active, offered = 'all', pseudonym, pastOfferings = false },
+) {
   const codes = courseCodes(uni.courseKeys);
   const electives = uni.electives.map((k) => codes.get(k));
   const offeredCodes = offered === 'all' ? electives : electives.slice(0, Number(offered));
@@ -91,6 +97,19 @@ export async function loadUniversity(client, uni, { active, offered = 'all', pse
     `COPY offerings (term, course_code, sections, capacity) FROM STDIN`,
     lines(offeredCodes.length, (i) => `${term}\t${offeredCodes[i]}\t2\t100\n`),
   );
+  if (pastOfferings) {
+    const past = new Set();
+    for (let r = 0; r < uni.courses.length; r++) {
+      if (electiveSet.has(uni.courses[r]))
+        past.add(`${uni.terms[r]}\t${codes.get(uni.courses[r])}`);
+    }
+    const rows = [...past];
+    await copyRows(
+      client,
+      `COPY offerings (term, course_code, sections, capacity) FROM STDIN`,
+      lines(rows.length, (i) => `${rows[i]}\t2\t100\n`),
+    );
+  }
   // Entry term: each student's first term with a record.
   const first = new Map();
   for (let r = 0; r < uni.students.length; r++) {

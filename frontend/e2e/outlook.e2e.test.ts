@@ -23,17 +23,19 @@ describe('demand outlook of the head of CMP', () => {
     await signIn(page, 'head.cmp@halden.example');
     await page.waitForURL('**/outlook');
     await page.getByRole('heading', { level: 1, name: 'Demand outlook' }).waitFor();
-    // The first scoring run of a fresh demo may still be under way.
+    // The first outlook run of a fresh demo may still be under way.
     const table = page.getByRole('table', { name: /electives offered in/ });
     await table.waitFor({ timeout: 120_000 });
     const codes = await table.locator('tbody tr td:first-child').allTextContents();
     expect(codes.length).toBeGreaterThan(0);
     expect(codes.every((c) => c.startsWith('CMP '))).toBe(true);
     const flags = await table.locator('tbody tr td:last-child').allTextContents();
-    expect(flags.every((f) => ['Over-subscribed', 'At risk', 'Balanced'].includes(f))).toBe(true);
+    expect(
+      flags.every((f) => ['Over-subscribed', 'At risk', 'No history', 'Balanced'].includes(f)),
+    ).toBe(true);
     await expect(
       page
-        .getByText(/lowest WAPE/)
+        .getByText(/What drives demand/)
         .first()
         .isVisible(),
     ).resolves.toBe(true);
@@ -41,12 +43,12 @@ describe('demand outlook of the head of CMP', () => {
     expect(otherHosts).toEqual([]);
   }, 180_000);
 
-  it('opens the backtest with the WAPE of the model and of the naive forecast', async () => {
+  it('opens the backtest with the WAPE of each term and per elective', async () => {
     await page.getByRole('tab', { name: 'Backtest' }).click();
     const table = page.getByRole('table', { name: /Backtest of/ });
     await table.waitFor();
-    await page.getByText('WAPE of the model').waitFor();
-    await page.getByText('WAPE of the naive forecast').waitFor();
+    const terms = page.getByRole('table', { name: /WAPE per backtest term/ });
+    expect(await terms.locator('tbody tr').count()).toBe(3);
     const codes = await table.locator('tbody tr td:first-child').allTextContents();
     expect(codes.length).toBeGreaterThan(0);
     expect(codes.every((c) => c.startsWith('CMP '))).toBe(true);
@@ -62,7 +64,7 @@ describe('demand outlook of the head of CMP', () => {
     const path = await download.path();
     const lines = readFileSync(path, 'utf8').trim().split(/\r?\n/);
     expect(lines[0]).toBe(
-      'term,course_code,title,department,sections,seats,expected,interval_low_80,interval_high_80,utilisation,flag',
+      'term,course_code,title,department,sections,seats,expected,interval_low_80,interval_high_80,utilisation_percent,flag,no_history',
     );
     expect(lines.length).toBeGreaterThan(1);
     for (const line of lines.slice(1)) expect(line.split(',')[3]).toBe('CMP');

@@ -28,8 +28,8 @@ export const RATE_LIMITS = {
   accountLinks: { limit: 30, ttl: MINUTE, what: 'requests' },
   /** Backtests run the model over a whole past term. */
   backtest: { limit: 10, ttl: HOUR, what: 'backtests' },
-  /** Scoring the cohort again reads every student. */
-  rescoring: { limit: 10, ttl: HOUR, what: 'scoring runs' },
+  /** An outlook run reads every student's records for four terms. */
+  outlookRun: { limit: 10, ttl: HOUR, what: 'outlook runs' },
   /** Summary e-mails go to any address the advisor types. */
   summaryMail: { limit: 10, ttl: 10 * MINUTE, what: 'summary e-mails' },
   /** Student look-ups by number: guessing numbers is how one would find students. */

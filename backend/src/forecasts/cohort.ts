@@ -1,16 +1,11 @@
 import { termOrdinal } from '@kinpath/contracts';
-import { buildModel, expectedLoad, type Model, type Scale } from '@kinpath/engine';
+import { outlook as engine } from '@kinpath/engine';
 import type { ClientBase } from 'pg';
 import { to as copyTo } from 'pg-copy-streams';
 import { loadGradeScale, type GradeScaleModel } from '../grade-scale/grade-scale.model';
-import { parsePrerequisites } from '../imports/validation/prerequisites';
+import { parsePrerequisites, type PrerequisiteNode } from '../imports/validation/prerequisites';
 import type { CatalogueEntry } from '../model/model-snapshot';
-import { termSortKey } from '../model/term-keys';
 import { passes, passRule, type PassRule } from '../students/attempts';
-import { ineligibleReasons } from '../students/eligibility';
-import { yearOfStudy } from './forecast-rules';
-
-export type ScoringPart = 'forecast' | 'backtest' | 'calibration';
 
 export interface Offering {
   capacity: number;
@@ -24,7 +19,7 @@ interface StudentRow {
 }
 
 /**
- * Everything a scoring run reads, from one consistent snapshot of the database. Records are
+ * Everything an outlook run reads, from one consistent snapshot of the database. Records are
  * grouped by student (`from[s]..from[s+1]` index the record columns of student s).
  */
 export interface CohortData {
@@ -43,7 +38,8 @@ export interface CohortData {
   grade: string[];
   points: Float64Array;
   satisfaction: Float64Array;
-  models: Map<number, Model>;
+  /** Course level digit (4 for a 4000-level course), from the catalogue's level or the code. */
+  levels: Map<string, number>;
 }
 
 /**
@@ -73,8 +69,13 @@ export async function loadCohort(client: ClientBase): Promise<CohortData> {
       credits: string | null;
       elective: boolean;
       prerequisites: string | null;
-    }>(`SELECT course_code, title, department, credits, elective, prerequisites FROM courses`);
+      level: string | null;
+    }>(
+      `SELECT course_code, title, department, credits, elective, prerequisites, level FROM courses`,
+    );
+    const levels = new Map<string, number>();
     for (const row of courseRows.rows) {
+      levels.set(row.course_code, courseLevel(row.course_code, row.level));
       const parsed = parsePrerequisites(row.prerequisites ?? '');
       courses.set(row.course_code, {
         courseCode: row.course_code,
@@ -120,7 +121,7 @@ export async function loadCohort(client: ClientBase): Promise<CohortData> {
       offerings,
       students,
       ...data,
-      models: new Map(),
+      levels,
     };
   } finally {
     await client.query('COMMIT');
@@ -185,260 +186,126 @@ async function readRecords(client: ClientBase) {
   };
 }
 
-/** The latest of `terms` before `term`; null when there is none. */
-function latestBefore(terms: readonly string[], term: string): string | null {
-  const o = termOrdinal(term);
-  let found: string | null = null;
-  for (const t of terms) {
-    if (termOrdinal(t) < o && (found === null || termOrdinal(t) > termOrdinal(found))) found = t;
+/** 4 for "4000" or, without a level, for a code like CMP 4110; 0 when neither says. */
+export function courseLevel(code: string, level: string | null): number {
+  const digit = (level ? /^\s*(\d)/.exec(level) : null) ?? /(\d)/.exec(code);
+  return digit ? Number(digit[1]) : 0;
+}
+
+/** The cohort as the engine's outlook input, with the codes behind its numbers. */
+export interface OutlookInput {
+  data: engine.OutlookData;
+  courses: string[];
+  /** Students in the cohort order: pseudonyms of the students table, then any only in records. */
+  pseudonyms: string[];
+  /** Active students (the live forecast's population). */
+  active: Int32Array;
+}
+
+function prerequisite(
+  node: PrerequisiteNode | null,
+  index: Map<string, number>,
+): engine.Prerequisite | null {
+  if (!node) return null;
+  if (node.type === 'course') {
+    // A prerequisite outside the catalogue cannot have been passed.
+    return { course: index.get(node.code) ?? -1 };
   }
-  return found;
+  const items = node.items.map((n) => prerequisite(n, index) as engine.Prerequisite);
+  return node.type === 'and' ? { all: items } : { any: items };
 }
 
-/** What planning a run needs: its data stamp, past terms and the head count of each part. */
-export interface RunOutline {
-  stamp: string;
-  backtest: string | null;
-  calibration: string | null;
-  students: Partial<Record<ScoringPart, number>>;
-}
-
-/**
- * A run's outline counted in SQL, in one snapshot as loadCohort reads: planning then takes
- * seconds instead of a cohort read, and every worker process reads the cohort at the same time,
- * each for its first chunk. The head counts are planPart's populations (a chunk checks that its
- * cohort agrees).
- */
-export async function outlineRun(
-  client: ClientBase,
-  term: string,
-  parts: readonly string[],
-): Promise<RunOutline> {
-  await client.query('BEGIN ISOLATION LEVEL REPEATABLE READ READ ONLY');
-  try {
-    const count = async (sql: string, params: unknown[] = []) =>
-      Number((await client.query<{ n: string }>(sql, params)).rows[0].n);
-    const stamp = (await client.query<{ stamp: string }>(DATA_STAMP_SQL)).rows[0].stamp;
-    const terms = (await client.query<{ term: string }>(`SELECT DISTINCT term FROM records`)).rows;
-    const recordTerms = terms.map((r) => r.term);
-    const backtest = parts.includes('backtest') ? latestBefore(recordTerms, term) : null;
-    const calibration =
-      backtest && parts.includes('calibration') ? latestBefore(recordTerms, backtest) : null;
-    const students: RunOutline['students'] = {
-      forecast: await count(`SELECT count(*) AS n FROM students WHERE status = 'active'`),
-    };
-    // Past terms: the students who enrolled in anything that term.
-    const enrolled = `SELECT count(DISTINCT student_pseudonym) AS n FROM records WHERE term = $1`;
-    if (backtest) students.backtest = await count(enrolled, [backtest]);
-    if (calibration) students.calibration = await count(enrolled, [calibration]);
-    return { stamp, backtest, calibration, students };
-  } finally {
-    await client.query('COMMIT');
+export function toOutlookInput(cohort: CohortData): OutlookInput {
+  // Records of a course missing from the catalogue still count as records of a course.
+  const courses = [...new Set([...cohort.courses.keys(), ...cohort.course])].sort();
+  const courseIndex = new Map(courses.map((c, i) => [c, i]));
+  const pseudonyms = [...cohort.students.keys()].sort();
+  const studentIndex = new Map(pseudonyms.map((p, i) => [p, i]));
+  for (const p of cohort.pseudonyms) {
+    if (!studentIndex.has(p)) studentIndex.set(p, pseudonyms.push(p) - 1);
   }
-}
-
-/**
- * The engine model from the records before `term` only: what was known when students chose
- * their electives for it. Built once per term and kept with the data.
- */
-export function modelBefore(data: CohortData, term: string): Model {
-  const cut = termOrdinal(term);
-  const cached = data.models.get(cut);
-  if (cached) return cached;
-  // Sized first: millions of records, and growing arrays by push costs more than the build.
-  let n = 0;
-  for (let r = 0; r < data.ordinal.length; r++) if (data.ordinal[r] < cut) n++;
-  const students = new Array<string>(n);
-  const courses = new Array<string>(n);
-  const terms = new Array<string>(n);
-  const grades = new Float64Array(n);
-  const satisfaction = new Float64Array(n);
-  const { minPoints, maxPoints } = data.scale;
-  const keys = new Map<string, string>();
-  let i = 0;
-  for (let s = 0; s < data.pseudonyms.length; s++) {
-    for (let r = data.from[s]; r < data.from[s + 1]; r++) {
-      if (data.ordinal[r] >= cut) continue;
-      let key = keys.get(data.term[r]);
-      if (key === undefined) keys.set(data.term[r], (key = termSortKey(data.term[r])));
-      let g = data.points[r];
-      // Points outside an edited scale are left out, as the advising model does.
-      if (g === g && (g < minPoints || g > maxPoints)) g = NaN;
-      students[i] = data.pseudonyms[s];
-      courses[i] = data.course[r];
-      terms[i] = key;
-      grades[i] = g;
-      satisfaction[i] = data.satisfaction[r];
-      i++;
-    }
+  const programmes = new Map<string, number>();
+  for (const s of cohort.students.values()) {
+    if (s.program && !programmes.has(s.program)) programmes.set(s.program, programmes.size);
   }
-  const scales: { grade?: Scale; satisfaction: Scale } = { satisfaction: { min: 1, max: 5 } };
-  if (maxPoints > minPoints) scales.grade = { min: minPoints, max: maxPoints };
-  const model = buildModel({ students, courses, terms, grades, satisfaction }, { scales });
-  data.models.set(cut, model);
-  return model;
-}
-
-/** One part of a run: a term, its population in a fixed order, loads and offered electives. */
-export interface PartPlan {
-  part: ScoringPart;
-  term: string;
-  /** Pseudonyms in string order, so every worker process numbers them alike. */
-  students: string[];
-  loads: Float64Array;
-  /** Offered electives of the term, in code order. */
-  electives: string[];
-}
-
-/**
- * The population of a part. Forecast: every active student. Backtest and calibration (past
- * terms): the students who enrolled in anything that term, since their status then is unknown.
- */
-export function planPart(data: CohortData, part: ScoringPart, term: string): PartPlan {
-  let students: string[];
-  if (part === 'forecast') {
-    students = [...data.students.entries()]
-      .filter(([, s]) => s.status === 'active')
-      .map(([p]) => p);
-  } else {
-    const o = termOrdinal(term);
-    students = [];
-    for (let s = 0; s < data.pseudonyms.length; s++) {
-      for (let r = data.from[s]; r < data.from[s + 1]; r++) {
-        if (data.ordinal[r] === o) {
-          students.push(data.pseudonyms[s]);
-          break;
-        }
-      }
-    }
-  }
-  students.sort();
-  const offered = data.offerings.get(term) ?? new Map<string, Offering>();
-  const electives = [...offered.keys()].filter((c) => data.courses.get(c)?.elective).sort();
-  const loadOf = loadsBefore(data, term);
-  const loads = Float64Array.from(students, (p) => {
-    const s = data.students.get(p);
-    const year = yearOfStudy(s?.entryTerm ?? null, term);
-    if (!s?.program || year === null) return 1;
-    return loadOf(s.program, year);
+  const unknown = programmes.size;
+  const S = pseudonyms.length;
+  const studentProgramme = new Int32Array(S).fill(unknown);
+  const studentEntry = new Int32Array(S).fill(engine.NO_TERM);
+  const active: number[] = [];
+  pseudonyms.forEach((p, i) => {
+    const s = cohort.students.get(p);
+    if (!s) return;
+    if (s.program) studentProgramme[i] = programmes.get(s.program) as number;
+    if (s.entryTerm) studentEntry[i] = termOrdinal(s.entryTerm);
+    if (s.status === 'active') active.push(i);
   });
-  return { part, term, students, loads, electives };
-}
-
-/**
- * e_s of method.md: the median number of electives per term that students of the same
- * programme and year of study took before `term` (every term they had records in); else 1.
- */
-export function loadsBefore(
-  data: CohortData,
-  term: string,
-): (program: string, year: number) => number {
-  const cut = termOrdinal(term);
-  const counts = new Map<string, number[]>();
-  for (let s = 0; s < data.pseudonyms.length; s++) {
-    const info = data.students.get(data.pseudonyms[s]);
-    if (!info?.program) continue;
-    const perTerm = new Map<string, number>();
-    for (let r = data.from[s]; r < data.from[s + 1]; r++) {
-      if (data.ordinal[r] >= cut) continue;
-      const elective = data.courses.get(data.course[r])?.elective ? 1 : 0;
-      perTerm.set(data.term[r], (perTerm.get(data.term[r]) ?? 0) + elective);
+  // Records per student in term order (the cohort has them by student only).
+  const counts = new Int32Array(S + 1);
+  const position = new Int32Array(cohort.pseudonyms.length);
+  cohort.pseudonyms.forEach((p, k) => {
+    const s = studentIndex.get(p) as number;
+    position[k] = s;
+    counts[s + 1] = cohort.from[k + 1] - cohort.from[k];
+  });
+  const recordFrom = new Int32Array(S + 1);
+  for (let s = 0; s < S; s++) recordFrom[s + 1] = recordFrom[s] + counts[s + 1];
+  const R = recordFrom[S];
+  const recordCourse = new Int32Array(R);
+  const recordTerm = new Int32Array(R);
+  const recordPassed = new Uint8Array(R);
+  cohort.pseudonyms.forEach((_, k) => {
+    const order: number[] = [];
+    for (let r = cohort.from[k]; r < cohort.from[k + 1]; r++) order.push(r);
+    order.sort((a, b) => cohort.ordinal[a] - cohort.ordinal[b]);
+    let at = recordFrom[position[k]];
+    for (const r of order) {
+      const points = cohort.points[r];
+      recordCourse[at] = courseIndex.get(cohort.course[r]) ?? -1;
+      recordTerm[at] = cohort.ordinal[r];
+      recordPassed[at] = passes(
+        {
+          term: cohort.term[r],
+          courseCode: cohort.course[r],
+          grade: cohort.grade[r],
+          gradePoints: points === points ? points : null,
+          satisfaction: null,
+          creditsAttempted: null,
+        },
+        cohort.rule,
+      )
+        ? 1
+        : 0;
+      at++;
     }
-    for (const [t, n] of perTerm) {
-      const year = yearOfStudy(info.entryTerm, t);
-      if (year === null) continue;
-      const key = `${info.program}\u0000${year}`;
-      let list = counts.get(key);
-      if (!list) counts.set(key, (list = []));
-      list.push(n);
-    }
+  });
+  const offerings = new Map<number, Int32Array>();
+  for (const [term, offered] of cohort.offerings) {
+    const electives = [...offered.keys()]
+      .filter((c) => cohort.courses.get(c)?.elective)
+      .map((c) => courseIndex.get(c) as number);
+    offerings.set(termOrdinal(term), Int32Array.from(electives));
   }
-  const medians = new Map<string, number>();
-  for (const [key, list] of counts) medians.set(key, expectedLoad(list));
-  return (program, year) => medians.get(`${program}\u0000${year}`) ?? 1;
-}
-
-/** Index of each pseudonym in the record columns. */
-export function studentIndex(data: CohortData): Map<string, number> {
-  const index = new Map<string, number>();
-  data.pseudonyms.forEach((p, i) => index.set(p, i));
-  return index;
-}
-
-/** Courses the student passed before `term` (data.md: P, or a grade at or above the threshold). */
-export function passedBefore(
-  data: CohortData,
-  position: number | undefined,
-  term: string,
-): Set<string> {
-  const passed = new Set<string>();
-  if (position === undefined) return passed;
-  const cut = termOrdinal(term);
-  for (let r = data.from[position]; r < data.from[position + 1]; r++) {
-    if (data.ordinal[r] >= cut) continue;
-    const points = data.points[r];
-    const attempt = {
-      term: data.term[r],
-      courseCode: data.course[r],
-      grade: data.grade[r],
-      gradePoints: points === points ? points : null,
-      satisfaction: null,
-      creditsAttempted: null,
-    };
-    if (passes(attempt, data.rule)) passed.add(data.course[r]);
-  }
-  return passed;
-}
-
-/** Eligible: not yet passed and prerequisites passed (the advising rules, offered in the term). */
-export function isEligible(
-  data: CohortData,
-  courseCode: string,
-  passed: ReadonlySet<string>,
-  term: string,
-): boolean {
-  const course = data.courses.get(courseCode);
-  return !!course && ineligibleReasons(course, passed, true, term).length === 0;
-}
-
-/** The student's eligible offered electives of the part, as positions in `plan.electives`. */
-export function eligibleElectives(
-  data: CohortData,
-  position: number | undefined,
-  plan: PartPlan,
-): number[] {
-  const passed = passedBefore(data, position, plan.term);
-  const eligible: number[] = [];
-  for (let t = 0; t < plan.electives.length; t++) {
-    if (isEligible(data, plan.electives[t], passed, plan.term)) eligible.push(t);
-  }
-  return eligible;
-}
-
-/** Students enrolled per elective in `term` (records in that term, any mark). */
-export function enrolments(data: CohortData, term: string): Map<string, number> {
-  const o = termOrdinal(term);
-  const out = new Map<string, number>();
-  for (let r = 0; r < data.course.length; r++) {
-    if (data.ordinal[r] === o) out.set(data.course[r], (out.get(data.course[r]) ?? 0) + 1);
-  }
-  return out;
-}
-
-/** The naive forecast: each course's enrolment the last time it ran before `term`. */
-export function naiveForecast(
-  data: CohortData,
-  term: string,
-): Map<string, { count: number; term: string }> {
-  const cut = termOrdinal(term);
-  const last = new Map<string, { ordinal: number; count: number; term: string }>();
-  for (let r = 0; r < data.course.length; r++) {
-    const o = data.ordinal[r];
-    if (o >= cut) continue;
-    const seen = last.get(data.course[r]);
-    if (!seen || o > seen.ordinal)
-      last.set(data.course[r], { ordinal: o, count: 1, term: data.term[r] });
-    else if (o === seen.ordinal) seen.count++;
-  }
-  return new Map([...last].map(([c, v]) => [c, { count: v.count, term: v.term }]));
+  return {
+    data: {
+      termsPerYear: 4,
+      courseCount: courses.length,
+      courseLevel: Int32Array.from(courses, (c) => cohort.levels.get(c) ?? 0),
+      courseElective: Uint8Array.from(courses, (c) => (cohort.courses.get(c)?.elective ? 1 : 0)),
+      prerequisites: courses.map((c) =>
+        prerequisite(cohort.courses.get(c)?.prerequisites ?? null, courseIndex),
+      ),
+      programmeCount: unknown + 1,
+      studentProgramme,
+      studentEntry,
+      recordFrom,
+      recordCourse,
+      recordTerm,
+      recordPassed,
+      offerings,
+    },
+    courses,
+    pseudonyms,
+    active: Int32Array.from(active),
+  };
 }

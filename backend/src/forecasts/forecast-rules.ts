@@ -1,44 +1,31 @@
 import type { ForecastFlag } from '@kinpath/contracts';
-import { termOrdinal } from '@kinpath/contracts';
-import { createHash } from 'node:crypto';
 
 /**
- * The outlook's rules that need no database: year of study, flags, the stored student key,
- * CSV cells safe for spreadsheets, and the sentence that says how beta was chosen.
+ * The outlook's rules that need no database: flags, utilisation, CSV cells safe for
+ * spreadsheets, and the plain sentence on what drives demand.
  */
 
-/** Year of study in a term for a student who entered in `entryTerm` (four terms a year). */
-export function yearOfStudy(entryTerm: string | null, term: string): number | null {
-  if (!entryTerm) return null;
-  const terms = termOrdinal(term) - termOrdinal(entryTerm);
-  return terms < 0 ? null : Math.floor(terms / 4) + 1;
-}
-
 /**
- * Over-subscribed when even the interval's low end is above the seats; at risk when the expected
- * enrolment is below the head's threshold; otherwise balanced. Over-subscription wins.
+ * Over-subscribed when even the interval's low end is above the seats; an elective with no
+ * history is never at risk for that reason alone, so it is flagged no history; at risk when
+ * the expected enrolment is below the head's threshold; otherwise balanced.
  */
 export function forecastFlag(
   expected: number,
   low: number,
   capacity: number,
   atRiskBelow: number,
+  noHistory = false,
 ): ForecastFlag {
   if (low > capacity) return 'over_subscribed';
+  if (noHistory) return 'no_history';
   if (expected < atRiskBelow) return 'at_risk';
   return 'balanced';
 }
 
+/** Expected enrolment as a share of the seats (0.8 = 80 %); null when there are none. */
 export function utilisation(expected: number, capacity: number): number | null {
   return capacity > 0 ? expected / capacity : null;
-}
-
-/**
- * The key a scored row is stored under: derived from the pseudonym (itself an HMAC of the
- * student number), so the results table never joins straight back to the records.
- */
-export function studentKey(pseudonym: string): string {
-  return createHash('sha256').update(`kinpath-outlook:${pseudonym}`).digest('hex').slice(0, 32);
 }
 
 /**
@@ -60,17 +47,37 @@ export function toCsv(header: readonly string[], rows: readonly (readonly string
   return [header, ...rows].map(line).join('\r\n') + '\r\n';
 }
 
-export function betaSentence(
-  beta: number,
-  calibrationTerm: string | null,
-  sameTerm = false,
-): string {
-  const b = beta.toFixed(3);
-  if (!calibrationTerm) {
-    return `No completed term with enrolments to calibrate on, so beta is set to ${b}; fit then weighs little in the choice.`;
-  }
-  return (
-    `Beta (${b}), how strongly a better fit pulls a student towards an elective, was chosen from a grid of values as the one whose forecast for ${calibrationTerm}, made from the records before it, came closest to the real enrolments (lowest WAPE)` +
-    (sameTerm ? '; it was chosen on this same term, which flatters the backtest a little.' : '.')
-  );
+/** What each rate feature of the choice model stands for, in method.md's θ order. */
+const DRIVERS = [
+  'how many students have taken the elective before',
+  'programme',
+  'stage (terms studied so far)',
+  'programme and stage together',
+  'year of study against the course level',
+];
+
+/**
+ * One plain sentence on what moves students' choices: the rate features ranked by their
+ * influence (|θ| times the spread of the feature), and how binding prerequisites are
+ * (θ6: exp(θ6) is the odds of choosing an elective whose prerequisites are missing).
+ */
+export function driversSentence(theta: ArrayLike<number>, influence: ArrayLike<number>): string {
+  const ranked = DRIVERS.map((name, j) => ({ name, weight: influence[j] ?? 0 }))
+    .filter((d) => d.weight > 0)
+    .sort((a, b) => b.weight - a.weight);
+  const top = ranked.slice(0, 2).map((d) => d.name);
+  const first = top.length
+    ? `${top.join(' and ')} matter${top.length === 1 ? 's' : ''} most`
+    : 'no single factor stands out';
+  const u = theta[5];
+  const prerequisites =
+    u === undefined
+      ? ''
+      : u <= -3
+        ? '; prerequisites are rarely waived'
+        : u <= -1
+          ? '; prerequisites are sometimes waived'
+          : '; prerequisites are often waived';
+  const sentence = `${first}${prerequisites}.`;
+  return sentence[0].toUpperCase() + sentence.slice(1);
 }

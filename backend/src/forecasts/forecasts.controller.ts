@@ -2,7 +2,7 @@ import type {
   BacktestResponse,
   CourseForecast,
   ForecastAbout,
-  ScoringRunSummary,
+  OutlookRunSummary,
 } from '@kinpath/contracts';
 import { Body, Controller, Get, Headers, HttpCode, Post, Query, Res } from '@nestjs/common';
 import { ApiOperation, ApiProduces, ApiTags } from '@nestjs/swagger';
@@ -10,9 +10,9 @@ import type { Response } from 'express';
 import { CurrentUser, Roles, SignedIn } from '../auth/decorators';
 import { RateLimit } from '../auth/rate-limit';
 import type { User } from '../users/entities/user.entity';
-import { BacktestQuery, ForecastsQuery, StartScoringDto } from './dto/forecasts.query';
+import { BacktestQuery, ForecastsQuery, OutlookTermDto } from './dto/forecasts.query';
 import { ForecastsService } from './forecasts.service';
-import { ScoringRunsService } from './scoring-runs.service';
+import { OutlookRunsService } from './outlook-runs.service';
 
 function sendCsv(res: Response, term: string | null, csv: string): string {
   res.setHeader('Content-Type', 'text/csv; charset=utf-8');
@@ -29,7 +29,7 @@ function sendCsv(res: Response, term: string | null, csv: string): string {
 export class ForecastsController {
   constructor(
     private readonly forecasts: ForecastsService,
-    private readonly runs: ScoringRunsService,
+    private readonly outlookRuns: OutlookRunsService,
   ) {}
 
   @Get()
@@ -38,7 +38,7 @@ export class ForecastsController {
   @ApiOperation({
     summary: 'Expected demand per offered elective against its seats (CSV with Accept: text/csv).',
     description:
-      'Department heads see their own department; asking for another answers 403. Flags: over_subscribed (the 80 % interval lies above the seats), at_risk (expected below atRiskBelow, default 10), balanced.',
+      'Department heads see their own department; asking for another answers 403. Flags: over_subscribed (the 80 % interval lies above the seats), no_history (a new elective, never at risk for that alone), at_risk (expected below atRiskBelow, default 10), balanced.',
   })
   async list(
     @Query() query: ForecastsQuery,
@@ -73,9 +73,9 @@ export class ForecastsController {
   @Roles('department_head', 'registrar')
   @ApiOperation({
     summary:
-      'The outlook term, its imported offerings, the scoring run behind the figures and how beta was set.',
+      'The outlook term, its imported offerings (a head: their department), the run behind the figures and what drives demand.',
   })
-  about(@Query() query: StartScoringDto, @CurrentUser() user: User): Promise<ForecastAbout> {
+  about(@Query() query: OutlookTermDto, @CurrentUser() user: User): Promise<ForecastAbout> {
     return this.forecasts.about(query.term, user);
   }
 
@@ -83,27 +83,27 @@ export class ForecastsController {
   @Roles('department_head', 'registrar')
   @ApiOperation({
     summary:
-      'The forecast of the last completed term (or term) from the data before it, against real enrolments.',
+      'Backtests of the last three completed terms: WAPE of the model and three simple forecasts, and interval coverage; per elective for one term.',
     description:
-      'WAPE overall and per course, next to the naive forecast (enrolment when the course last ran).',
+      'terms: one entry per backtest term (whole institution). term (default: the latest of them) gives the per-elective rows and figures over the courses shown.',
   })
   backtest(@Query() query: BacktestQuery, @CurrentUser() user: User): Promise<BacktestResponse> {
     return this.forecasts.backtest(query, user);
   }
 
-  @Get('scoring')
+  @Get('runs')
   @Roles('registrar')
-  @ApiOperation({ summary: 'Cohort scoring runs, newest first, with their progress in chunks.' })
-  scoring(): Promise<ScoringRunSummary[]> {
-    return this.runs.list();
+  @ApiOperation({ summary: 'Outlook runs, newest first, with their progress in terms computed.' })
+  runs(): Promise<OutlookRunSummary[]> {
+    return this.outlookRuns.list();
   }
 
-  @RateLimit('rescoring')
-  @Post('scoring')
+  @RateLimit('outlookRun')
+  @Post('runs')
   @Roles('registrar')
   @HttpCode(202)
-  @ApiOperation({ summary: 'Score the cohort again now (default: the next term).' })
-  async rescore(@Body() dto: StartScoringDto): Promise<ScoringRunSummary | null> {
-    return this.runs.ensureRun('manual', undefined, dto.term, true);
+  @ApiOperation({ summary: 'Compute the outlook again now (default: the next term).' })
+  async refresh(@Body() dto: OutlookTermDto): Promise<OutlookRunSummary | null> {
+    return this.outlookRuns.ensureRun('manual', dto.term, true);
   }
 }

@@ -4,17 +4,17 @@ import { ModelModule } from '../model/model.module';
 import { TermDataModule } from '../term-data/term-data.module';
 import { ForecastsController } from './forecasts.controller';
 import { ForecastsService } from './forecasts.service';
-import { ScoringRunsService } from './scoring-runs.service';
+import { OutlookRunsService } from './outlook-runs.service';
 
 /**
- * The department heads' demand outlook: cohort scoring runs (queued here, scored by worker
- * processes), the forecast, its backtest and the CSV export. ModelModule is imported so its
- * events (model rebuilt, settings changed) can start new runs.
+ * The department heads' demand outlook: outlook runs (queued here, computed by worker
+ * processes), the forecast, its backtests and the CSV export. ModelModule is imported so its
+ * refresh event (after an import is committed or rolled back) can start a new run.
  */
 @Module({
   imports: [TermDataModule, ModelModule],
   controllers: [ForecastsController],
   // The catalogue's own service, for its definition of the next term.
-  providers: [ForecastsService, ScoringRunsService, CatalogueService],
+  providers: [ForecastsService, OutlookRunsService, CatalogueService],
 })
 export class ForecastsModule {}

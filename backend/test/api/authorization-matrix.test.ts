@@ -80,8 +80,8 @@ export const ACCESS: Record<string, Rule> = {
   'GET /api/forecasts/backtest': { access: OUTLOOK, departmentScoped: true },
   'GET /api/forecasts/export': { access: OUTLOOK, departmentScoped: true },
   'GET /api/forecasts/about': { access: OUTLOOK },
-  'GET /api/forecasts/scoring': { access: REGISTRAR },
-  'POST /api/forecasts/scoring': { access: REGISTRAR },
+  'GET /api/forecasts/runs': { access: REGISTRAR },
+  'POST /api/forecasts/runs': { access: REGISTRAR },
 };
 
 /** Plausible values for path parameters: well-formed, naming nothing that exists. */

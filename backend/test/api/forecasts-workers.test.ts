@@ -7,7 +7,7 @@ import { api, bearer, DEMO_USERS, signIn, withDatabase } from '../support/api';
 import { startServer, type TestServer } from '../support/server';
 
 const REPO = resolve(__dirname, '..', '..', '..');
-const WORKER = resolve(__dirname, '..', '..', 'dist', 'forecasts', 'scoring-worker.js');
+const WORKER = resolve(__dirname, '..', '..', 'dist', 'forecasts', 'outlook-worker.js');
 
 let server: TestServer;
 const workers: ChildProcess[] = [];
@@ -48,15 +48,15 @@ async function waitDone(runId: string): Promise<void> {
   const deadline = Date.now() + 240_000;
   for (;;) {
     const status = await db(async (c) => {
-      const { rows } = await c.query(`SELECT status, error FROM scoring_runs WHERE id = $1`, [
+      const { rows } = await c.query(`SELECT status, error FROM outlook_runs WHERE id = $1`, [
         runId,
       ]);
       return rows[0] as { status: string; error: string | null };
     });
     if (status.status === 'done') return;
-    if (status.status !== 'queued' && status.status !== 'scoring')
+    if (status.status !== 'queued' && status.status !== 'computing')
       throw new Error(`run ${status.status}: ${status.error}`);
-    if (Date.now() > deadline) throw new Error('the scoring run did not finish in time');
+    if (Date.now() > deadline) throw new Error('the outlook run did not finish in time');
     await new Promise((r) => setTimeout(r, 500));
   }
 }
@@ -64,36 +64,22 @@ async function waitDone(runId: string): Promise<void> {
 /** Everything a run stored, without its id, in a fixed order. */
 async function results(runId: string) {
   return db(async (c) => {
-    const scored = await c.query(
-      `SELECT part, student_key, course_code, expected_load, fit, predicted_grade,
-         predicted_satisfaction, kin_grade, kin_satisfaction, probability
-       FROM scoring_results WHERE run_id = $1 ORDER BY part, student_key, course_code`,
-      [runId],
-    );
     const courses = await c.query(
-      `SELECT part, course_code, expected, variance, low, high, actual, naive
-       FROM forecast_courses WHERE run_id = $1 ORDER BY part, course_code`,
+      `SELECT term, part, course_code, expected, variance, low, high, no_history, actual, naive,
+         same_term, take_up
+       FROM outlook_courses WHERE run_id = $1 ORDER BY term, course_code`,
       [runId],
     );
     const run = await c.query(
-      `SELECT beta, beta_backtest, chunks_total FROM scoring_runs WHERE id = $1`,
+      `SELECT steps_done, steps_total, summary->'terms' AS terms, summary->'theta' AS theta
+       FROM outlook_runs WHERE id = $1`,
       [runId],
     );
-    const chunkWorkers = await c.query(
-      `SELECT count(DISTINCT worker) AS n FROM scoring_chunks WHERE run_id = $1`,
-      [runId],
-    );
-    return {
-      scored: scored.rows,
-      courses: courses.rows,
-      run: run.rows[0],
-      workers: Number(chunkWorkers.rows[0].n),
-    };
+    return { courses: courses.rows, run: run.rows[0] };
   });
 }
 
-// A smaller Halden Reach (600 students) keeps the start-up short; chunks of 60 students make
-// several chunks per part, so both worker processes get some.
+// A smaller Halden Reach (600 students) keeps the start-up short.
 const demoDir = mkdtempSync(join(tmpdir(), 'kinpath-outlook-demo-'));
 
 beforeAll(async () => {
@@ -104,10 +90,9 @@ beforeAll(async () => {
     '--students',
     '600',
   ]);
-  // No scoring processes of the server's own: the test starts them.
+  // No outlook processes of the server's own: the test starts one.
   server = await startServer({
-    KINPATH_SCORING_PROCESSES: '0',
-    KINPATH_SCORING_CHUNK: '60',
+    KINPATH_OUTLOOK_PROCESSES: '0',
     KINPATH_DEMO_DIR: demoDir,
   });
 }, 120_000);
@@ -118,39 +103,33 @@ afterAll(async () => {
   rmSync(demoDir, { recursive: true, force: true });
 });
 
-describe('cohort scoring across worker processes', () => {
-  it('stores identical results with one worker process and with two', async () => {
+describe('outlook runs in a separate worker process', () => {
+  it('computes the run queued at start, with progress, and the same figures when asked again', async () => {
     const first = await db(async (c) => {
       const deadline = Date.now() + 60_000;
       for (;;) {
-        const { rows } = await c.query(`SELECT id FROM scoring_runs ORDER BY created_at LIMIT 1`);
+        const { rows } = await c.query(`SELECT id FROM outlook_runs ORDER BY created_at LIMIT 1`);
         if (rows[0]) return rows[0].id as string;
-        if (Date.now() > deadline) throw new Error('no scoring run was queued at start');
+        if (Date.now() > deadline) throw new Error('no outlook run was queued at start');
         await new Promise((r) => setTimeout(r, 300));
       }
     });
     startWorker();
     await waitDone(first);
     const one = await results(first);
-    await stopWorkers();
-    expect(one.scored.length).toBeGreaterThan(500);
-    expect(one.run.chunks_total).toBeGreaterThan(4);
+    expect(one.courses.length).toBeGreaterThan(50);
+    expect(one.run.steps_total).toBeGreaterThan(1);
+    expect(one.run.steps_done).toBe(one.run.steps_total);
+    expect(one.run.terms).toHaveLength(3);
 
     const registrar = await signIn(DEMO_USERS.registrar, undefined, server.url);
     const res = await api(server.url)
-      .post('/api/forecasts/scoring')
+      .post('/api/forecasts/runs')
       .set(...bearer(registrar))
       .send({});
     expect(res.status).toBe(202);
-    startWorker();
-    startWorker();
     await waitDone(res.body.id as string);
     const two = await results(res.body.id as string);
-
-    expect(two.workers).toBe(2);
-    expect(two.run).toEqual(one.run);
-    expect(two.courses).toEqual(one.courses);
-    expect(two.scored.length).toBe(one.scored.length);
-    expect(two.scored).toEqual(one.scored);
+    expect(two).toEqual(one);
   }, 400_000);
 });

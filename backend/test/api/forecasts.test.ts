@@ -2,7 +2,7 @@ import type { BacktestResponse, CourseForecast, ForecastAbout } from '@kinpath/c
 import { beforeAll, describe, expect, it } from 'vitest';
 import { api, bearer, DEMO_USERS, signIn } from '../support/api';
 
-/** The shared demo server: its first scoring run starts at boot and takes a few seconds. */
+/** The shared demo server: its first outlook run starts at boot and takes a few seconds. */
 async function waitForOutlook(token: string): Promise<ForecastAbout> {
   const deadline = Date.now() + 120_000;
   for (;;) {
@@ -12,7 +12,7 @@ async function waitForOutlook(token: string): Promise<ForecastAbout> {
     expect(res.status).toBe(200);
     const about = res.body as ForecastAbout;
     if (about.run) return about;
-    if (Date.now() > deadline) throw new Error(`No finished scoring run: ${res.text}`);
+    if (Date.now() > deadline) throw new Error(`No finished outlook run: ${res.text}`);
     await new Promise((r) => setTimeout(r, 1000));
   }
 }
@@ -40,7 +40,9 @@ describe('GET /api/forecasts', () => {
       expect(r.department).toBe('CMP');
       expect(r.low).toBeLessThanOrEqual(r.expected);
       expect(r.high).toBeGreaterThanOrEqual(r.expected);
-      expect(['over_subscribed', 'at_risk', 'balanced']).toContain(r.flag);
+      expect(['over_subscribed', 'at_risk', 'no_history', 'balanced']).toContain(r.flag);
+      expect(typeof r.noHistory).toBe('boolean');
+      if (r.noHistory) expect(r.flag).not.toBe('at_risk');
       if (r.flag === 'over_subscribed') expect(r.low).toBeGreaterThan(r.capacity);
       if (r.capacity > 0) expect(r.utilisation).toBeCloseTo(r.expected / r.capacity, 9);
     }
@@ -126,7 +128,7 @@ describe('CSV export', () => {
     expect(res.headers['content-type']).toMatch(/text\/csv/);
     const lines = res.text.trim().split('\r\n');
     expect(lines[0]).toBe(
-      'term,course_code,title,department,sections,seats,expected,interval_low_80,interval_high_80,utilisation,flag',
+      'term,course_code,title,department,sections,seats,expected,interval_low_80,interval_high_80,utilisation_percent,flag,no_history',
     );
     expect(lines.slice(1).every((l) => l.includes(',CMP,'))).toBe(true);
     const negotiated = await api()
@@ -138,44 +140,83 @@ describe('CSV export', () => {
   });
 });
 
+describe('GET /api/forecasts/about', () => {
+  it('counts a head’s own department’s offerings, not the institution’s', async () => {
+    const mine = (
+      await api()
+        .get('/api/forecasts/about')
+        .set(...bearer(head))
+    ).body as ForecastAbout;
+    const all = (
+      await api()
+        .get('/api/forecasts/about')
+        .set(...bearer(registrar))
+    ).body as ForecastAbout;
+    const rows = (
+      await api()
+        .get('/api/forecasts')
+        .set(...bearer(head))
+    ).body as CourseForecast[];
+    expect(mine.offerings).toBe(rows.length);
+    expect(all.offerings).toBeGreaterThan(mine.offerings);
+    expect(all.drivers).toMatch(/matter/);
+  });
+});
+
 describe('GET /api/forecasts/backtest', () => {
-  it('compares the model and the naive forecast with real enrolments of the last completed term', async () => {
+  it('beats the naive forecast on each of the last three completed terms of the demo', async () => {
     const res = await api()
       .get('/api/forecasts/backtest')
       .set(...bearer(registrar));
     expect(res.status).toBe(200);
     const b = res.body as BacktestResponse;
-    expect(b.term).toMatch(/^\d{4}-(WI|SP|SU|FA)$/);
+    expect(b.terms).toHaveLength(3);
+    const pct = (x: number | null) => (x === null ? '-' : `${(100 * x).toFixed(1)} %`);
+    for (const t of b.terms) {
+      process.stdout.write(
+        `backtest ${t.term}: model ${pct(t.modelWape)}, naive ${pct(t.naiveWape)}, same term a year before ${pct(t.sameTermWape)}, take-up ${pct(t.takeUpWape)}, coverage ${pct(t.coverage)}\n`,
+      );
+      expect(t.modelWape).not.toBeNull();
+      expect(t.modelWape as number).toBeLessThan(t.naiveWape as number);
+    }
+    expect(b.term).toBe(b.terms[2].term);
+    expect(b.verdict).toBeNull();
     expect(b.courses.length).toBeGreaterThan(0);
     const sum = (f: (c: BacktestResponse['courses'][number]) => number) =>
       b.courses.reduce((s, c) => s + f(c), 0);
     const actual = sum((c) => c.actual);
     expect(b.modelWape).toBeCloseTo(sum((c) => Math.abs(c.forecast - c.actual)) / actual, 9);
     expect(b.naiveWape).toBeCloseTo(sum((c) => Math.abs(c.naive - c.actual)) / actual, 9);
-    expect(b.betaMethod).toMatch(/WAPE/);
-    const own = (
+    expect(b.modelWape).toBeCloseTo(b.terms[2].modelWape as number, 9);
+    expect(b.coverage).toBeCloseTo(b.courses.filter((c) => c.inside).length / b.courses.length, 9);
+    const earlier = (
       await api()
-        .get('/api/forecasts/backtest')
+        .get(`/api/forecasts/backtest?term=${b.terms[0].term}`)
         .set(...bearer(head))
     ).body as BacktestResponse;
-    expect(own.courses.every((c) => c.department === 'CMP')).toBe(true);
+    expect(earlier.term).toBe(b.terms[0].term);
+    expect(earlier.courses.every((c) => c.department === 'CMP')).toBe(true);
+    const missing = await api()
+      .get('/api/forecasts/backtest?term=2019-FA')
+      .set(...bearer(registrar));
+    expect(missing.status).toBe(404);
   });
 });
 
-describe('GET /api/forecasts/scoring', () => {
-  it('shows registrar staff the scoring runs with their progress', async () => {
+describe('GET /api/forecasts/runs', () => {
+  it('shows registrar staff the outlook runs with their progress', async () => {
     const res = await api()
-      .get('/api/forecasts/scoring')
+      .get('/api/forecasts/runs')
       .set(...bearer(registrar));
     expect(res.status).toBe(200);
     expect(res.body[0]).toMatchObject({
-      chunksTotal: expect.any(Number),
+      stepsTotal: expect.any(Number),
       status: expect.any(String),
     });
     expect(
       (
         await api()
-          .get('/api/forecasts/scoring')
+          .get('/api/forecasts/runs')
           .set(...bearer(head))
       ).status,
     ).toBe(403);

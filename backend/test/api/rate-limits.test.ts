@@ -106,10 +106,10 @@ describe('per-address and per-user request limits', () => {
     expect(fresh.status).toBe(400);
   });
 
-  it('limits scoring runs per user', async () => {
+  it('limits outlook runs per user', async () => {
     const { passed, res } = await untilLimited(15, () =>
       api()
-        .post('/api/forecasts/scoring')
+        .post('/api/forecasts/runs')
         .set(...bearer(registrar))
         .send({ term: 12 }),
     );

@@ -7,13 +7,18 @@ import { ESTIMATE_CAUTION_TITLE, ESTIMATE_CAUTIONS } from '@kinpath/contracts';
 interface EstimateCautionsProps {
   /** Heading level to fit the page's outline; estimates usually sit under an `h2`. */
   headingLevel?: 'h2' | 'h3';
+  /** The role's own cautions (default: the advising cautions). */
+  cautions?: readonly string[];
 }
 
 /**
  * The cautions that go with every estimate, in the words the contracts package keeps. A labelled
  * region rather than a live alert: it is standing text, and screen-reader users can jump to it.
  */
-export function EstimateCautions({ headingLevel = 'h2' }: EstimateCautionsProps) {
+export function EstimateCautions({
+  headingLevel = 'h2',
+  cautions = ESTIMATE_CAUTIONS,
+}: EstimateCautionsProps) {
   const headingId = useId();
   return (
     <Box
@@ -38,7 +43,7 @@ export function EstimateCautions({ headingLevel = 'h2' }: EstimateCautionsProps)
           {ESTIMATE_CAUTION_TITLE}
         </Typography>
         <Box component="ul" sx={{ m: 0, pl: 2.5, '& li + li': { mt: 0.5 } }}>
-          {ESTIMATE_CAUTIONS.map((caution) => (
+          {cautions.map((caution) => (
             <li key={caution}>{caution}</li>
           ))}
         </Box>

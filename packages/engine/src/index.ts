@@ -38,17 +38,7 @@ export {
   RANGE_MIN_CELLS,
 } from './ranges';
 export type { LikelyRange, RangeBin, RangeTable } from './ranges';
-export {
-  choiceProbabilities,
-  expectedLoad,
-  forecastDemand,
-  interval,
-  wape,
-  calibrateBeta,
-  BETA_GRID,
-  Z80,
-} from './forecast';
-export type { ForecastStudent, CourseDemand } from './forecast';
+export * as outlook from './outlook';
 export { generateUniversity, registrarTermOrder } from './generator';
 export type { University, UniversityOptions } from './generator';
 export { suggestSettings, SUGGESTION_GRID } from './suggest';

@@ -1,18 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import {
   buildModel,
-  calibrateBeta,
-  choiceProbabilities,
   CONFIDENCE_DESCRIPTION,
   evaluate,
-  expectedLoad,
   explain,
-  forecastDemand,
   predictStudent,
   RecordError,
   scoreBatch,
   similarities,
-  wape,
 } from '../src';
 import { similarityTerms, resolveSettings } from '../src/api';
 import { randomRecords, rng } from './helpers';
@@ -185,51 +180,5 @@ describe('batch scoring', () => {
     await expect(p).rejects.toThrow('stop');
     const q = scoreBatch(model, { students }, { workers: 0, chunkSize: 5, signal: ctl.signal });
     await expect(q).rejects.toThrow('stop');
-  });
-});
-
-describe('demand forecast arithmetic', () => {
-  it('softmax choice capped at 1, demand, variance, 80% interval, WAPE', () => {
-    const p = choiceProbabilities([50, 50], 1, 0.1);
-    expect([...p]).toEqual([0.5, 0.5]);
-    expect([...choiceProbabilities([90, 10, 10], 3, 1)]).toEqual([
-      1,
-      expect.any(Number),
-      expect.any(Number),
-    ]);
-    const f = forecastDemand(
-      [
-        {
-          load: 1,
-          electives: [
-            { course: 'A', fit: 60 },
-            { course: 'B', fit: 60 },
-          ],
-        },
-        { load: 1, electives: [{ course: 'A', fit: 80 }] },
-      ],
-      0.05,
-    );
-    const a = f.find((d) => d.course === 'A')!;
-    expect(a.expected).toBeCloseTo(1.5, 12);
-    expect(a.variance).toBeCloseTo(0.25, 12);
-    expect(a.high).toBeCloseTo(1.5 + 1.2816 * 0.5, 12);
-    expect(wape([2, 3], [1, 3])).toBeCloseTo(0.25, 12);
-    expect(wape([1], [0])).toBeNull();
-    expect(expectedLoad([])).toBe(1);
-    expect(expectedLoad([1, 3, 2, 2])).toBe(2);
-    const cal = calibrateBeta(
-      [
-        {
-          load: 1,
-          electives: [
-            { course: 'A', fit: 90 },
-            { course: 'B', fit: 10 },
-          ],
-        },
-      ],
-      new Map([['A', 1]]),
-    );
-    expect(cal.beta).toBeGreaterThan(0);
   });
 });

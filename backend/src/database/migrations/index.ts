@@ -8,6 +8,7 @@ import { DemandOutlook1796185100000 } from './1796185100000-DemandOutlook';
 import { ScoringStorage1796185200000 } from './1796185200000-ScoringStorage';
 import { ImportFilePrivacy1796403727902 } from './1796403727902-ImportFilePrivacy';
 import { EstimatorSettings1796404426012 } from './1796404426012-EstimatorSettings';
+import { ChoiceOutlook1796404495670 } from './1796404495670-ChoiceOutlook';
 
 /** Every migration, oldest first. A new migration is added here as well as to this folder. */
 export const MIGRATIONS = [
@@ -21,4 +22,5 @@ export const MIGRATIONS = [
   ScoringStorage1796185200000,
   ImportFilePrivacy1796403727902,
   EstimatorSettings1796404426012,
+  ChoiceOutlook1796404495670,
 ];

@@ -46,7 +46,7 @@ export class BacktestQuery {
   department?: string;
 }
 
-export class StartScoringDto {
+export class OutlookTermDto {
   @ApiPropertyOptional({ example: '2027-SP', description: 'Default: the next term.' })
   @IsOptional()
   @Matches(TERM_PATTERN, { message: TERM_MESSAGE })

@@ -5,28 +5,25 @@ import type {
   BacktestResponse,
   CourseForecast,
   ForecastAbout,
-  ScoringRunSummary,
+  OutlookRunSummary,
 } from '@kinpath/contracts';
+import { ESTIMATE_CAUTIONS, OUTLOOK_CAUTIONS } from '@kinpath/contracts';
 import { installFakeApi } from '../../test/fake-api';
 import { renderApp, signInAs } from '../../test/render';
-import { backtestVerdict } from './components/BacktestSection';
+import { backtestCsv } from './components/BacktestSection';
 
 let api: ReturnType<typeof installFakeApi> | undefined;
 afterEach(() => api?.restore());
 
-const RUN: ScoringRunSummary = {
+const RUN: OutlookRunSummary = {
   id: 'run-1',
   term: '2027-SP',
-  settingsVersion: 1,
   reason: 'start',
   status: 'done',
-  chunksDone: 3,
-  chunksTotal: 3,
+  stepsDone: 7,
+  stepsTotal: 7,
   progress: 1,
   students: 901,
-  rows: 74179,
-  beta: 0.045,
-  backtestTerm: '2026-FA',
   error: null,
   createdAt: '2026-12-01T10:00:00.000Z',
   finishedAt: '2026-12-01T10:01:00.000Z',
@@ -37,7 +34,8 @@ const ABOUT: ForecastAbout = {
   offerings: 98,
   run: RUN,
   pending: null,
-  betaMethod: 'Beta (0.045) was chosen on 2026-FA as the value with the lowest WAPE.',
+  drivers:
+    'Programme and year of study against the course level matter most; prerequisites are rarely waived.',
   defaultAtRiskBelow: 10,
 };
 
@@ -52,6 +50,8 @@ const row = (over: Partial<CourseForecast>): CourseForecast => ({
   high: 39.1,
   utilisation: 32.5 / 35,
   flag: 'balanced',
+  noHistory: false,
+  classProfile: null,
   ...over,
 });
 
@@ -77,6 +77,17 @@ const ROWS: CourseForecast[] = [
     utilisation: 0.168,
     flag: 'at_risk',
   }),
+  row({
+    courseCode: 'CMP 4510',
+    title: 'Quantum Programming',
+    capacity: 20,
+    expected: 3.1,
+    low: 0,
+    high: 7.2,
+    utilisation: 0.155,
+    flag: 'no_history',
+    noHistory: true,
+  }),
 ];
 
 // The first render of the charts in jsdom is slow on a busy machine.
@@ -92,7 +103,7 @@ describe('demand outlook', { timeout: 30_000 }, () => {
     renderApp('/outlook');
     const table = await screen.findByRole(
       'table',
-      { name: /3 electives offered in 2027-SP/ },
+      { name: /4 electives offered in 2027-SP/ },
       WAIT,
     );
     const over = within(table).getByText('CMP 1110').closest('tr') as HTMLElement;
@@ -101,12 +112,20 @@ describe('demand outlook', { timeout: 30_000 }, () => {
     const risk = within(table).getByText('CMP 4410').closest('tr') as HTMLElement;
     expect(within(risk).getByText('At risk')).toBeInTheDocument();
     expect(within(risk).getByText('1.9 – 6.5')).toBeInTheDocument();
-    expect(within(risk).getByText('17 %')).toBeInTheDocument();
+    expect(within(risk).getByText('16.8 %')).toBeInTheDocument();
     const ok = within(table).getByText('CMP 2110').closest('tr') as HTMLElement;
     expect(within(ok).getByText('Balanced')).toBeInTheDocument();
-    // How beta was calibrated, and the cautions, beside the estimates.
-    expect(screen.getByText(/lowest WAPE/)).toBeInTheDocument();
+    // A new elective with a small estimate is "no history", not "at risk".
+    const fresh = within(table).getByText('CMP 4510').closest('tr') as HTMLElement;
+    expect(within(fresh).getByText('No history')).toBeInTheDocument();
+    expect(within(fresh).queryByText('At risk')).toBeNull();
+    // One plain explanation of what drives demand, the totals, and the head's own cautions.
+    expect(screen.getByText(/prerequisites are rarely waived/)).toBeInTheDocument();
+    const totals = screen.getByRole('table', { name: 'Department totals' });
+    expect(within(totals).getByText('100')).toBeInTheDocument();
     expect(screen.getByRole('heading', { name: 'About these estimates' })).toBeInTheDocument();
+    expect(screen.getByText(OUTLOOK_CAUTIONS[0])).toBeInTheDocument();
+    expect(screen.queryByText(ESTIMATE_CAUTIONS[0])).toBeNull();
   });
 
   it('lets the head set the at-risk threshold', async () => {
@@ -126,7 +145,7 @@ describe('demand outlook', { timeout: 30_000 }, () => {
     api = installFakeApi({
       'GET /forecasts/about': () => ({
         status: 200,
-        data: { ...ABOUT, offerings: 0, run: null, betaMethod: null },
+        data: { ...ABOUT, offerings: 0, run: null, drivers: null },
       }),
     });
     signInAs('department_head');
@@ -138,13 +157,58 @@ describe('demand outlook', { timeout: 30_000 }, () => {
     expect(screen.queryByRole('button', { name: 'Export CSV' })).toBeNull();
   });
 
-  it('shows the backtest honestly when the naive forecast wins', async () => {
+  it('shows an empty state for a department with no electives', async () => {
+    api = installFakeApi({
+      'GET /forecasts/about': () => ({ status: 200, data: ABOUT }),
+      'GET /forecasts': () => ({ status: 200, data: [] }),
+    });
+    signInAs('department_head');
+    renderApp('/outlook');
+    expect(
+      await screen.findByRole('heading', { name: /No electives offered/ }, WAIT),
+    ).toBeInTheDocument();
+  });
+
+  it('shows "All departments" in the registrar’s department selector', async () => {
+    api = installFakeApi({
+      'GET /forecasts/about': () => ({ status: 200, data: ABOUT }),
+      'GET /forecasts': () => ({ status: 200, data: ROWS }),
+      'GET /forecasts/runs': () => ({ status: 200, data: [RUN] }),
+    });
+    signInAs('registrar');
+    renderApp('/outlook');
+    const select = await screen.findByRole('combobox', { name: 'Department' }, WAIT);
+    expect(select).toHaveTextContent('All departments');
+  });
+
+  it('shows every backtest term and says so when the model does not win', async () => {
     const backtest: BacktestResponse = {
+      terms: [
+        {
+          term: '2026-SP',
+          modelWape: 0.3,
+          naiveWape: 0.25,
+          sameTermWape: 0.4,
+          takeUpWape: 0.27,
+          coverage: 0.7,
+        },
+        {
+          term: '2026-FA',
+          modelWape: 0.31,
+          naiveWape: 0.22,
+          sameTermWape: 0.35,
+          takeUpWape: 0.24,
+          coverage: 0.8,
+        },
+      ],
       term: '2026-FA',
       modelWape: 0.31,
       naiveWape: 0.22,
-      beta: 0.08,
-      betaMethod: 'Beta chosen on 2026-SP.',
+      sameTermWape: 0.35,
+      takeUpWape: 0.24,
+      coverage: 1,
+      verdict:
+        'Over the last 2 completed terms the model did not beat the naive forecast (enrolment the last time each elective ran): its mean WAPE was 30.5 % against 23.5 %, so weigh its figures accordingly.',
       courses: [
         {
           courseCode: 'CMP 2110',
@@ -156,12 +220,18 @@ describe('demand outlook', { timeout: 30_000 }, () => {
           actual: 47,
           naive: 38,
           naiveTerm: '2026-SP',
+          sameTerm: 40,
+          takeUp: 31.2,
+          noHistory: false,
           modelError: 0.38,
           naiveError: 0.19,
+          inside: false,
         },
       ],
     };
-    expect(backtestVerdict(backtest)).toMatch(/naive forecast .* was closer than the model's/);
+    expect(backtestCsv(backtest).split('\r\n')[1]).toBe(
+      '2026-FA,CMP 2110,Data Structures,CMP,47,29.1,22.8,35.3,no,38,2026-SP,40,31.2,no',
+    );
     api = installFakeApi({
       'GET /forecasts/about': () => ({ status: 200, data: ABOUT }),
       'GET /forecasts': () => ({ status: 200, data: ROWS }),
@@ -172,7 +242,10 @@ describe('demand outlook', { timeout: 30_000 }, () => {
     await userEvent.click(await screen.findByRole('tab', { name: 'Backtest' }, WAIT));
     const table = await screen.findByRole('table', { name: /Backtest of 2026-FA/ }, WAIT);
     expect(within(table).getByText('47')).toBeInTheDocument();
-    expect(screen.getByText('31.0 %')).toBeInTheDocument();
-    expect(screen.getByText('22.0 %')).toBeInTheDocument();
+    const terms = screen.getByRole('table', { name: /WAPE per backtest term/ });
+    expect(within(terms).getByText('2026-SP')).toBeInTheDocument();
+    expect(within(terms).getByText('31.0 %')).toBeInTheDocument();
+    expect(within(terms).getByText('22.0 %')).toBeInTheDocument();
+    expect(screen.getByText(/did not beat the naive forecast/)).toBeInTheDocument();
   });
 });

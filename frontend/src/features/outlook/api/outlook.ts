@@ -3,7 +3,7 @@ import type {
   BacktestResponse,
   CourseForecast,
   ForecastAbout,
-  ScoringRunSummary,
+  OutlookRunSummary,
 } from '@kinpath/contracts';
 import { apiClient } from '../../../lib/api-client';
 
@@ -24,7 +24,7 @@ export function useOutlookAbout() {
   return useQuery({
     queryKey: ['forecasts', 'about'],
     queryFn: async () => (await apiClient.get<ForecastAbout>('/forecasts/about')).data,
-    // While a run is being scored, look again now and then.
+    // While a run is being computed, look again now and then.
     refetchInterval: (query) => (query.state.data && !query.state.data.pending ? false : 5000),
   });
 }
@@ -41,25 +41,27 @@ export function useForecasts(filter: OutlookFilter, enabled: boolean, runId: str
 
 export function useBacktest(
   department: string | undefined,
+  term: string | undefined,
   enabled: boolean,
   runId: string | null,
 ) {
   return useQuery({
-    queryKey: ['forecasts', 'backtest', department ?? null, runId],
+    queryKey: ['forecasts', 'backtest', department ?? null, term ?? null, runId],
     queryFn: async () =>
       (
         await apiClient.get<BacktestResponse>('/forecasts/backtest', {
-          params: department ? { department } : {},
+          params: { ...(department ? { department } : {}), ...(term ? { term } : {}) },
         })
       ).data,
     enabled,
+    placeholderData: keepPreviousData,
   });
 }
 
-export function useScoringRuns(enabled: boolean) {
+export function useOutlookRuns(enabled: boolean) {
   return useQuery({
-    queryKey: ['forecasts', 'scoring'],
-    queryFn: async () => (await apiClient.get<ScoringRunSummary[]>('/forecasts/scoring')).data,
+    queryKey: ['forecasts', 'runs'],
+    queryFn: async () => (await apiClient.get<OutlookRunSummary[]>('/forecasts/runs')).data,
     enabled,
     refetchInterval: 5000,
   });

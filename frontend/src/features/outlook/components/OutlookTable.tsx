@@ -13,7 +13,7 @@ import { FlagLabel } from './FlagLabel';
 
 const column = createColumnHelper<CourseForecast>();
 
-const FLAG_ORDER = { over_subscribed: 0, at_risk: 1, balanced: 2 } as const;
+const FLAG_ORDER = { over_subscribed: 0, at_risk: 1, no_history: 2, balanced: 3 } as const;
 
 const columns = [
   column.accessor('courseCode', { header: 'Course' }),
@@ -35,9 +35,9 @@ const columns = [
     cell: (c) => `${fixed(c.row.original.low)} – ${fixed(c.row.original.high)}`,
   }),
   column.accessor('utilisation', {
-    header: 'Utilisation',
+    header: 'Utilisation (% of seats)',
     meta: { numeric: true },
-    cell: (c) => percent(c.getValue()),
+    cell: (c) => percent(c.getValue(), 1),
     sortUndefined: 'last',
   }),
   column.accessor('flag', {

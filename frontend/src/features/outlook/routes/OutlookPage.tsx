@@ -9,9 +9,21 @@ import Tab from '@mui/material/Tab';
 import Tabs from '@mui/material/Tabs';
 import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
+import Paper from '@mui/material/Paper';
+import Table from '@mui/material/Table';
+import TableBody from '@mui/material/TableBody';
+import TableCell from '@mui/material/TableCell';
+import TableContainer from '@mui/material/TableContainer';
+import TableHead from '@mui/material/TableHead';
+import TableRow from '@mui/material/TableRow';
 import Download from '@mui/icons-material/Download';
-import type { ForecastAbout, ScoringRunSummary } from '@kinpath/contracts';
-import { DEFAULT_AT_RISK_BELOW, FORECAST_FLAG_LABELS, FORECAST_FLAGS } from '@kinpath/contracts';
+import type { CourseForecast, ForecastAbout, OutlookRunSummary } from '@kinpath/contracts';
+import {
+  DEFAULT_AT_RISK_BELOW,
+  FORECAST_FLAG_LABELS,
+  FORECAST_FLAGS,
+  OUTLOOK_CAUTIONS,
+} from '@kinpath/contracts';
 import { EmptyState } from '../../../components/EmptyState';
 import { EstimateCautions } from '../../../components/EstimateCautions';
 import { PageHeader } from '../../../components/PageHeader';
@@ -23,15 +35,84 @@ import {
   useBacktest,
   useForecasts,
   useOutlookAbout,
-  useScoringRuns,
+  useOutlookRuns,
 } from '../api/outlook';
 import { BacktestSection } from '../components/BacktestSection';
 import { FLAG_EXPLANATIONS, FlagLabel } from '../components/FlagLabel';
 import { OutlookChart } from '../components/OutlookChart';
 import { OutlookTable } from '../components/OutlookTable';
+import { fixed, percent } from '../format';
 
-function runProgress(run: ScoringRunSummary): string {
-  return `${run.chunksDone} of ${run.chunksTotal || '…'} chunks scored`;
+function runProgress(run: OutlookRunSummary): string {
+  return `${run.stepsDone} of ${run.stepsTotal || '…'} terms computed`;
+}
+
+/** Seats, expected enrolment and utilisation summed per department. */
+export function departmentTotals(rows: readonly CourseForecast[]) {
+  const totals = new Map<string, { electives: number; seats: number; expected: number }>();
+  for (const r of rows) {
+    const t = totals.get(r.department) ?? { electives: 0, seats: 0, expected: 0 };
+    t.electives++;
+    t.seats += r.capacity;
+    t.expected += r.expected;
+    totals.set(r.department, t);
+  }
+  return [...totals].map(([department, t]) => ({
+    department,
+    ...t,
+    utilisation: t.seats > 0 ? t.expected / t.seats : null,
+  }));
+}
+
+function DepartmentTotals({ rows }: { rows: readonly CourseForecast[] }) {
+  const totals = departmentTotals(rows);
+  if (totals.length === 0) return null;
+  const num = { fontVariantNumeric: 'tabular-nums' } as const;
+  return (
+    <TableContainer component={Paper} variant="outlined" sx={{ maxWidth: 720 }}>
+      <Table size="small">
+        <caption style={{ captionSide: 'top', textAlign: 'left' }}>Department totals</caption>
+        <TableHead>
+          <TableRow>
+            <TableCell scope="col">Department</TableCell>
+            <TableCell scope="col" align="right">
+              Electives
+            </TableCell>
+            <TableCell scope="col" align="right">
+              Seats
+            </TableCell>
+            <TableCell scope="col" align="right">
+              Expected
+            </TableCell>
+            <TableCell scope="col" align="right">
+              Utilisation (% of seats)
+            </TableCell>
+          </TableRow>
+        </TableHead>
+        <TableBody>
+          {totals.map((t) => (
+            <TableRow key={t.department}>
+              <TableCell component="th" scope="row">
+                {t.department}
+              </TableCell>
+              <TableCell align="right" sx={num}>
+                {t.electives}
+              </TableCell>
+              <TableCell align="right" sx={num}>
+                {t.seats}
+              </TableCell>
+              <TableCell align="right" sx={num}>
+                {fixed(t.expected)}
+              </TableCell>
+              <TableCell align="right" sx={num}>
+                {percent(t.utilisation, 1)}
+              </TableCell>
+            </TableRow>
+          ))}
+        </TableBody>
+      </Table>
+    </TableContainer>
+  );
 }
 
 /** What to say when there is nothing to show yet; null when the outlook can be shown. */
@@ -63,15 +144,16 @@ export function OutlookEmpty({ about }: { about: ForecastAbout }) {
   return (
     <EmptyState heading={`The outlook for ${about.term} is being computed`}>
       <Typography sx={{ mb: 1.5 }}>
-        Every active student is being scored against the electives offered in {about.term}; the
-        table appears here when that is done.
+        The choices of every active student among the electives offered in {about.term} are being
+        estimated, with backtests of the last completed terms; the table appears here when that is
+        done.
       </Typography>
       {about.pending ? (
         <>
           <LinearProgress
             variant="determinate"
             value={Math.round(about.pending.progress * 100)}
-            aria-label="Scoring progress"
+            aria-label="Outlook progress"
           />
           <Typography variant="body2" sx={{ mt: 1 }}>
             {runProgress(about.pending)}.
@@ -82,21 +164,20 @@ export function OutlookEmpty({ about }: { about: ForecastAbout }) {
   );
 }
 
-function ScoringStatus({ runs }: { runs: ScoringRunSummary[] }) {
+function RunStatus({ runs }: { runs: OutlookRunSummary[] }) {
   const latest = runs[0];
   if (!latest) return null;
-  const words: Record<ScoringRunSummary['status'], string> = {
+  const words: Record<OutlookRunSummary['status'], string> = {
     queued: 'queued',
-    scoring: 'scoring',
-    finalising: 'finishing',
+    computing: 'computing',
     done: 'done',
     failed: 'failed',
     superseded: 'replaced by a newer run',
   };
   return (
     <Typography variant="body2" sx={{ color: 'text.secondary' }}>
-      Latest cohort scoring run for {latest.term} ({latest.reason}, settings version{' '}
-      {latest.settingsVersion}): {words[latest.status]}, {runProgress(latest)}
+      Latest outlook run for {latest.term} ({latest.reason}): {words[latest.status]},{' '}
+      {runProgress(latest)}
       {latest.students !== null ? `, ${latest.students} active students` : ''}
       {latest.error ? ` — ${latest.error}` : ''}.
     </Typography>
@@ -119,8 +200,9 @@ export function OutlookPage() {
   const [tab, setTab] = useState<'outlook' | 'backtest'>('outlook');
   const [exportError, setExportError] = useState<string | null>(null);
   const forecasts = useForecasts({ department: ownDepartment, atRiskBelow }, ready, runId);
-  const backtest = useBacktest(ownDepartment, ready && tab === 'backtest', runId);
-  const runs = useScoringRuns(!isHead);
+  const [backtestTerm, setBacktestTerm] = useState<string | undefined>(undefined);
+  const backtest = useBacktest(ownDepartment, backtestTerm, ready && tab === 'backtest', runId);
+  const runs = useOutlookRuns(!isHead);
   const ids = { threshold: useId(), chart: useId(), outlookTab: useId(), backtestTab: useId() };
 
   const allRows = useMemo(() => forecasts.data ?? [], [forecasts.data]);
@@ -179,9 +261,8 @@ export function OutlookPage() {
           <>
             {about.data.pending ? (
               <Alert severity="info">
-                A newer outlook is being computed after a change to the term data or the model
-                settings ({runProgress(about.data.pending)}); the figures below stay until it is
-                done.
+                A newer outlook is being computed after a change to the term data (
+                {runProgress(about.data.pending)}); the figures below stay until it is done.
               </Alert>
             ) : null}
             <Box sx={{ display: 'flex', gap: 2, flexWrap: 'wrap', alignItems: 'flex-start' }}>
@@ -208,6 +289,8 @@ export function OutlookPage() {
                   size="small"
                   value={department}
                   onChange={(e) => setDepartment(e.target.value)}
+                  // The empty value is "All departments": shown, not a blank box.
+                  slotProps={{ select: { displayEmpty: true }, inputLabel: { shrink: true } }}
                   sx={{ minWidth: 200 }}
                 >
                   <MenuItem value="">All departments</MenuItem>
@@ -219,9 +302,9 @@ export function OutlookPage() {
                 </TextField>
               ) : null}
             </Box>
-            {about.data.betaMethod ? (
+            {about.data.drivers ? (
               <Typography variant="body2" sx={{ maxWidth: '78ch' }}>
-                <strong>How the choice model was tuned:</strong> {about.data.betaMethod}
+                <strong>What drives demand:</strong> {about.data.drivers}
               </Typography>
             ) : null}
             <Tabs
@@ -269,8 +352,18 @@ export function OutlookPage() {
                     </Alert>
                   ) : null}
                   {forecasts.isPending ? <LinearProgress aria-label="Loading the outlook" /> : null}
-                  {forecasts.data ? (
+                  {forecasts.data && rows.length === 0 ? (
+                    <EmptyState heading={`No electives offered${scope ? ` by ${scope}` : ''}`}>
+                      <Typography>
+                        {scope ? `Department ${scope} offers` : 'No department offers'} no electives
+                        in {term ?? 'the next term'}, so there is no demand to forecast. Offerings
+                        come from the registrar&apos;s offerings import.
+                      </Typography>
+                    </EmptyState>
+                  ) : null}
+                  {forecasts.data && rows.length > 0 ? (
                     <>
+                      <DepartmentTotals rows={rows} />
                       <OutlookTable
                         rows={rows}
                         caption={`${rows.length} electives offered in ${term ?? ''}${scope ? `, department ${scope}` : ''}: ${FORECAST_FLAGS.map((f) => `${rows.filter((r) => r.flag === f).length} ${FORECAST_FLAG_LABELS[f].toLowerCase()}`).join(', ')}`}
@@ -296,7 +389,7 @@ export function OutlookPage() {
                     </Alert>
                   ) : null}
                   {backtestData && backtestData.term ? (
-                    <BacktestSection backtest={backtestData} />
+                    <BacktestSection backtest={backtestData} onTerm={setBacktestTerm} />
                   ) : backtestData ? (
                     <Typography>
                       There is no completed term before {term} to backtest against yet.
@@ -305,10 +398,10 @@ export function OutlookPage() {
                 </>
               ) : null}
             </Box>
-            {!isHead && runs.data ? <ScoringStatus runs={runs.data} /> : null}
+            {!isHead && runs.data ? <RunStatus runs={runs.data} /> : null}
           </>
         ) : null}
-        <EstimateCautions />
+        <EstimateCautions cautions={OUTLOOK_CAUTIONS} />
       </Stack>
     </>
   );

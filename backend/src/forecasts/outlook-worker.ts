@@ -1,16 +1,16 @@
 /**
- * A scoring worker process: consumes the demand outlook's scoring jobs and nothing else.
+ * An outlook worker process: computes the demand outlook runs the server queues, nothing else.
  *
- *   node backend/dist/forecasts/scoring-worker.js     (the server's KINPATH_DB_* settings)
+ *   node backend/dist/forecasts/outlook-worker.js     (the server's KINPATH_DB_* settings)
  *
- * Start more of them, here or on other machines sharing the database, to finish a run sooner:
- * each scores in its own thread, so one process per core.
+ * Start more of them, here or on other machines sharing the database, to compute runs of
+ * several terms at once; one run is computed by one process.
  */
 import { hostname } from 'node:os';
 import { Pool } from 'pg';
 import { loadDatabaseConfig } from '../config/config';
-import { ScoringQueue } from './scoring-queue';
-import { ScoringRunner } from './scoring-runner';
+import { OutlookQueue } from './outlook-queue';
+import { OutlookRunner } from './outlook-runner';
 
 async function main(): Promise<void> {
   const db = loadDatabaseConfig();
@@ -22,8 +22,8 @@ async function main(): Promise<void> {
     if (quiet) return;
     process.stdout.write(
       json
-        ? `${JSON.stringify({ level: 'log', pid: process.pid, timestamp: Date.now(), message, context: 'ScoringWorker' })}\n`
-        : `kinpath scoring worker ${process.pid}: ${message}\n`,
+        ? `${JSON.stringify({ level: 'log', pid: process.pid, timestamp: Date.now(), message, context: 'OutlookWorker' })}\n`
+        : `kinpath outlook worker ${process.pid}: ${message}\n`,
     );
   };
   const pool = new Pool({
@@ -33,18 +33,18 @@ async function main(): Promise<void> {
     user: db.user,
     password: db.password,
     max: 3,
-    application_name: 'kinpath-scoring-worker',
+    application_name: 'kinpath-outlook-worker',
   });
   // An idle connection dropped by the server is not a reason to stop.
   pool.on('error', (error) => log(`database: ${error.message}`));
-  const queue = new ScoringQueue(db, (error) => log(`job queue: ${error.message}`));
+  const queue = new OutlookQueue(db, (error) => log(`job queue: ${error.message}`));
   await queue.start();
-  const runner = new ScoringRunner(pool, (jobs) => queue.send(jobs), {
+  const runner = new OutlookRunner(pool, {
     worker: `${hostname()}:${process.pid}`,
     log,
   });
   await queue.work((job) => runner.handle(job));
-  log('waiting for scoring jobs');
+  log('waiting for outlook runs');
 
   let stopping = false;
   const stop = async () => {
@@ -61,6 +61,6 @@ async function main(): Promise<void> {
 }
 
 main().catch((error: Error) => {
-  process.stderr.write(`kinpath scoring worker: ${error.message}\n`);
+  process.stderr.write(`kinpath outlook worker: ${error.message}\n`);
   process.exit(1);
 });
