@@ -39,6 +39,10 @@ export const ACCESS: Record<string, Rule> = {
   'POST /api/users/{id}/invitation': { access: ADMIN },
   'DELETE /api/users/{id}/invitation': { access: ADMIN },
 
+  'GET /api/departments': { access: 'signed-in' },
+  'POST /api/departments': { access: ADMIN },
+  'DELETE /api/departments/{code}': { access: ADMIN },
+
   'GET /api/audit': { access: ['admin', 'registrar'] },
 
   'POST /api/imports': { access: REGISTRAR },
@@ -136,6 +140,12 @@ beforeAll(async () => {
     tokens.set(role, await signIn(DEMO_USERS[role], DEMO_PASSWORD, server.url));
   const admin = tokens.get('admin')!;
   const otherHead = { email: 'head.mth@halden.example', password: 'bramble-harbour-lantern-5' };
+  // No catalogue on this server: the head's department is added by hand first.
+  await request(server.url)
+    .post('/api/departments')
+    .set(...bearer(admin))
+    .send({ code: 'MTH' })
+    .expect(201);
   const created = await request(server.url)
     .post('/api/users')
     .set(...bearer(admin))
