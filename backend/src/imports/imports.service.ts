@@ -641,7 +641,7 @@ export class ImportsService implements OnApplicationBootstrap {
     manager: EntityManager,
     path: string,
     kind: ImportKind,
-    actor: Actor,
+    actor: Actor | null,
   ): Promise<{ id: string; rows: number }> {
     const runner = manager.queryRunner;
     if (!runner) throw new Error('importInTransaction needs a transaction.');
@@ -653,7 +653,7 @@ export class ImportsService implements OnApplicationBootstrap {
       `INSERT INTO imports (kind, status, file_name, file_sha256, file_bytes, commit_requested,
          created_by)
        VALUES ($1, 'validating', $2, $3, $4, true, $5) RETURNING id`,
-      [kind, path.split('/').pop(), sha256, size, actor.id],
+      [kind, path.split('/').pop(), sha256, size, actor?.id ?? null],
     );
     const id = rows[0].id;
     await copyFile(path, uploadPath(this.config.dataDir, id));
@@ -674,7 +674,7 @@ export class ImportsService implements OnApplicationBootstrap {
       );
       await this.record(actor, IMPORT_AUDIT.uploaded, id, { kind, sha256, demo: true }, manager);
       const commitStarted = Date.now();
-      await this.commitInTransaction(runner, id, kind, actor.id, commitStarted);
+      await this.commitInTransaction(runner, id, kind, actor?.id ?? null, commitStarted);
       return { id, rows: result.rowsAccepted };
     } finally {
       await removeQuietly(uploadPath(this.config.dataDir, id));
