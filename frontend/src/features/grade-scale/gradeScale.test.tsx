@@ -88,6 +88,19 @@ describe('the grade-scale form', { timeout: 40_000 }, () => {
     expect(puts()).toEqual([]);
   });
 
+  it('hides the remove columns’ headings from sight only, one pixel wide', async () => {
+    api = scaleApi();
+    const { form } = await openPage();
+    const headings = form.getAllByRole('columnheader', { name: 'Remove' });
+    expect(headings).toHaveLength(2);
+    for (const heading of headings) {
+      const text = heading.firstElementChild as HTMLElement;
+      // In MUI's sx a bare 1 is 100 %: the hidden text would be as wide as the page.
+      expect(getComputedStyle(text).width).toBe('1px');
+      expect(getComputedStyle(text).position).toBe('absolute');
+    }
+  });
+
   it('rejects points that are not a number and an empty letter', async () => {
     api = scaleApi();
     const { user, form } = await openPage();

@@ -4,28 +4,8 @@ import Chip from '@mui/material/Chip';
 import type { ElectiveEstimate, EstimateBasis, EstimateConfidence } from '@kinpath/contracts';
 import { BASIS_DESCRIPTIONS, BASIS_LABELS, CONFIDENCE_LABELS, fixed } from '../format';
 
-/** Text for screen readers only, e.g. which signal a "Kin" column counts for. */
-export function VisuallyHidden({ children }: { children: ReactNode }) {
-  return (
-    <Box
-      component="span"
-      sx={{
-        position: 'absolute',
-        // Strings: in `sx`, a bare 1 would mean 100%.
-        width: '1px',
-        height: '1px',
-        p: 0,
-        m: '-1px',
-        overflow: 'hidden',
-        clip: 'rect(0 0 0 0)',
-        whiteSpace: 'nowrap',
-        border: 0,
-      }}
-    >
-      {children}
-    </Box>
-  );
-}
+/** Kept here too, for the screens that import it from the estimate cells. */
+export { VisuallyHidden } from '../../../components/VisuallyHidden';
 
 /** Baseline values are set in italics and say "baseline": never shown as if kin gave them. */
 function Estimate({ basis, children }: { basis: EstimateBasis; children: ReactNode }) {

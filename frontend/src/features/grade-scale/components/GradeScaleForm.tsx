@@ -30,6 +30,7 @@ import {
   type UpdateGradeScaleRequest,
 } from '@kinpath/contracts';
 import { ConfirmDialog } from '../../../components/ConfirmDialog';
+import { visuallyHidden } from '../../../components/VisuallyHidden';
 import { apiMessage, httpStatus } from '../../../lib/api-client';
 import { formatCount } from '../../imports/words';
 import { useSaveGradeScale } from '../api/gradeScale';
@@ -444,12 +445,3 @@ export function confirmationText(storedRecords: number | null): string {
     'Estimates are rebuilt afterwards. A letter that stored records still use cannot be removed.'
   );
 }
-
-const visuallyHidden = {
-  position: 'absolute',
-  width: 1,
-  height: 1,
-  overflow: 'hidden',
-  clip: 'rect(0 0 0 0)',
-  whiteSpace: 'nowrap',
-} as const;
