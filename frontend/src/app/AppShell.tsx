@@ -99,7 +99,14 @@ function RoleNavigation({ role }: { role: Role }) {
     >
       <List
         dense
-        sx={{ display: 'flex', flexDirection: { xs: 'row', md: 'column' }, gap: 0.5, p: 1 }}
+        sx={{
+          display: 'flex',
+          flexDirection: { xs: 'row', md: 'column' },
+          // A narrow window wraps the links onto more lines instead of scrolling the page.
+          flexWrap: { xs: 'wrap', md: 'nowrap' },
+          gap: 0.5,
+          p: 1,
+        }}
       >
         {items.map((item) => (
           <li key={item.path}>

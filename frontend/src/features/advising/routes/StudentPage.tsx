@@ -263,7 +263,7 @@ export function StudentPage() {
           sx={{
             display: 'grid',
             gap: 3,
-            gridTemplateColumns: { xs: '1fr', xl: 'minmax(0, 3fr) minmax(320px, 2fr)' },
+            gridTemplateColumns: { xs: 'minmax(0, 1fr)', xl: 'minmax(0, 3fr) minmax(320px, 2fr)' },
             alignItems: 'start',
           }}
         >

@@ -48,13 +48,20 @@ const columns = [
   column.accessor((e) => detailText(e.detail), { id: 'detail', header: 'Detail' }),
 ];
 
-// Short columns keep their words whole; long targets and details wrap between words, and
-// break inside one only when a single word is wider than the cell.
+// Short columns keep their words whole. Targets and details may hold ids with no space to
+// break at: only those two may break inside a word, and the detail keeps room for whole words.
 const ENTRY_CELL = { verticalAlign: 'top', overflowWrap: 'break-word' } as const;
 const SHORT_CELL = { ...ENTRY_CELL, whiteSpace: 'nowrap' } as const;
-const WIDE_CELL = { ...ENTRY_CELL, minWidth: 160 } as const;
+const ID_CELL = { verticalAlign: 'top', overflowWrap: 'anywhere', minWidth: 120 } as const;
+const WIDE_CELL = { ...ID_CELL, minWidth: 220 } as const;
 const cellStyle = ({ column: { id } }: { column: { id: string } }) =>
-  id === 'at' || id === 'action' ? SHORT_CELL : id === 'detail' ? WIDE_CELL : ENTRY_CELL;
+  id === 'at' || id === 'action'
+    ? SHORT_CELL
+    : id === 'detail'
+      ? WIDE_CELL
+      : id === 'target'
+        ? ID_CELL
+        : ENTRY_CELL;
 
 const NO_FILTERS: AuditFilters = { action: '', actor: '', target: '', from: '', to: '' };
 
