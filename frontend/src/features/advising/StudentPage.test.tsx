@@ -133,6 +133,33 @@ describe('student page', { timeout: 60_000 }, () => {
     expect(rowFor(shortlist, 'ART 2210')).toHaveTextContent('baseline — too few kin');
   });
 
+  it('keeps keyboard focus on a ticked box and on the shortlist after "Remove"', async () => {
+    const { table, user } = await openStudent();
+    const box = within(table).getByRole('checkbox', { name: /Shortlist CMP 3110/ });
+    box.focus();
+    await user.keyboard(' ');
+    const shortlist = await screen.findByRole('table', { name: 'Shortlist for 2026-SP' });
+    await waitFor(() => expect(bodyRows(shortlist)).toHaveLength(1));
+    // The same box, still focused: not a new one put in its place.
+    expect(within(table).getByRole('checkbox', { name: /Shortlist CMP 3110/ })).toBe(box);
+    expect(document.activeElement).toBe(box);
+
+    await user.click(within(table).getByRole('checkbox', { name: /Shortlist ART 2210/ }));
+    await waitFor(() => expect(bodyRows(shortlist)).toHaveLength(2));
+    await user.click(screen.getByRole('button', { name: 'Remove CMP 3110 from the shortlist' }));
+    await waitFor(() =>
+      expect(document.activeElement).toBe(
+        screen.getByRole('button', { name: 'Remove ART 2210 from the shortlist' }),
+      ),
+    );
+    await user.click(screen.getByRole('button', { name: 'Remove ART 2210 from the shortlist' }));
+    await waitFor(() =>
+      expect(document.activeElement).toBe(
+        screen.getByRole('heading', { name: 'Shortlist for 2026-SP' }),
+      ),
+    );
+  });
+
   it('groups the course history by term, newest first', async () => {
     await openStudent();
     const history = await screen.findByRole('table', { name: 'Course history' });

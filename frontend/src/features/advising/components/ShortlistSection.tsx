@@ -1,4 +1,4 @@
-import { useId, useState } from 'react';
+import { useEffect, useId, useRef, useState } from 'react';
 import Alert from '@mui/material/Alert';
 import Box from '@mui/material/Box';
 import Button from '@mui/material/Button';
@@ -48,6 +48,19 @@ export function ShortlistSection({
   const [dialogOpen, setDialogOpen] = useState(false);
   const [sent, setSent] = useState<SummaryResponse | null>(null);
   const codes = shortlist?.courseCodes ?? [];
+  const sectionRef = useRef<HTMLElement>(null);
+  // Where focus goes once a removed row has gone: the next row's "Remove", else the heading.
+  const focusAfterRemoval = useRef<number | null>(null);
+  const count = codes.length;
+  useEffect(() => {
+    const index = focusAfterRemoval.current;
+    const section = sectionRef.current;
+    if (index === null || !section) return;
+    focusAfterRemoval.current = null;
+    const buttons = section.querySelectorAll<HTMLElement>('[data-remove]');
+    const next = buttons[Math.min(index, buttons.length - 1)];
+    (next ?? section.querySelector<HTMLElement>('h2'))?.focus();
+  }, [count]);
   const titles = new Map(shortlist?.items.map((i) => [i.courseCode, i.title]) ?? []);
   const courses = codes.map((code) => ({
     courseCode: code,
@@ -55,9 +68,15 @@ export function ShortlistSection({
   }));
 
   return (
-    <Paper component="section" aria-labelledby={headingId} variant="outlined" sx={{ p: 2.5 }}>
+    <Paper
+      component="section"
+      ref={sectionRef}
+      aria-labelledby={headingId}
+      variant="outlined"
+      sx={{ p: 2.5 }}
+    >
       <Box sx={{ display: 'flex', alignItems: 'center', gap: 2, flexWrap: 'wrap', mb: 1 }}>
-        <Typography id={headingId} variant="h2" sx={{ mr: 'auto' }}>
+        <Typography id={headingId} variant="h2" tabIndex={-1} sx={{ mr: 'auto' }}>
           Shortlist{term ? ` for ${term}` : ''}
         </Typography>
         <Button
@@ -130,7 +149,7 @@ export function ShortlistSection({
                 </TableRow>
               </TableHead>
               <TableBody>
-                {courses.map(({ courseCode, title }) => {
+                {courses.map(({ courseCode, title }, index) => {
                   const e = electives.get(courseCode);
                   return (
                     <TableRow key={courseCode}>
@@ -171,7 +190,11 @@ export function ShortlistSection({
                       <TableCell className="kp-no-print">
                         <Button
                           size="small"
-                          onClick={() => onRemove(courseCode)}
+                          data-remove
+                          onClick={() => {
+                            focusAfterRemoval.current = index;
+                            onRemove(courseCode);
+                          }}
                           aria-label={`Remove ${courseCode} from the shortlist`}
                         >
                           Remove
