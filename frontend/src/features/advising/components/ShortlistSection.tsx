@@ -31,6 +31,8 @@ interface ShortlistSectionProps {
   shortlist: Shortlist | undefined;
   loadError: boolean;
   saveError: boolean;
+  /** The electives request failed: rows have no estimates to show, and no summary can go out. */
+  electivesError: boolean;
   electives: ReadonlyMap<string, ElectiveEstimate>;
   onRemove: (courseCode: string) => void;
 }
@@ -41,6 +43,7 @@ export function ShortlistSection({
   shortlist,
   loadError,
   saveError,
+  electivesError,
   electives,
   onRemove,
 }: ShortlistSectionProps) {
@@ -87,7 +90,7 @@ export function ShortlistSection({
             setSent(null);
             setDialogOpen(true);
           }}
-          disabled={codes.length === 0}
+          disabled={codes.length === 0 || electivesError}
           aria-haspopup="dialog"
         >
           Send summary
@@ -98,6 +101,12 @@ export function ShortlistSection({
           <Alert severity="success" sx={{ mb: 1.5 }} onClose={() => setSent(null)}>
             Summary sent to {sent.to} at {dateTime(sent.sentAt)} ({sent.courseCodes.length}{' '}
             {sent.courseCodes.length === 1 ? 'elective' : 'electives'}).
+          </Alert>
+        ) : null}
+        {electivesError && codes.length > 0 ? (
+          <Alert severity="error" sx={{ mb: 1.5 }}>
+            The estimates could not be loaded, so the shortlist shows none and no summary can be
+            sent. Reload the page to try again.
           </Alert>
         ) : null}
         {saveError ? (
@@ -183,8 +192,9 @@ export function ShortlistSection({
                         </>
                       ) : (
                         <TableCell colSpan={7} sx={{ color: 'text.secondary' }}>
-                          Not among the electives of {term ?? 'this term'}: no estimate for this
-                          term.
+                          {electivesError
+                            ? 'Estimates not loaded.'
+                            : `Not among the electives of ${term ?? 'this term'}: no estimate for this term.`}
                         </TableCell>
                       )}
                       <TableCell className="kp-no-print">
