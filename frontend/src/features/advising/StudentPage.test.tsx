@@ -3,7 +3,7 @@ import { configure, screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { ESTIMATE_CAUTION_TITLE } from '@kinpath/contracts';
 import { renderApp, signInAs } from '../../test/render';
-import { fakeAdvisingApi, REF } from './test/fixtures';
+import { fakeAdvisingApi, REF, STUDENT } from './test/fixtures';
 
 // The whole app renders in jsdom; screens that wait on the (fake) API get time on a busy machine.
 configure({ asyncUtilTimeout: 10_000 });
@@ -11,8 +11,8 @@ configure({ asyncUtilTimeout: 10_000 });
 let api: ReturnType<typeof fakeAdvisingApi> | undefined;
 afterEach(() => api?.restore());
 
-async function openStudent() {
-  api = fakeAdvisingApi();
+async function openStudent(overrides: Parameters<typeof fakeAdvisingApi>[0] = {}) {
+  api = fakeAdvisingApi(overrides);
   signInAs('advisor');
   const rendered = renderApp(`/advising/students/${REF}`);
   const table = await screen.findByRole('table', { name: /^Electives for 2026-SP/ });
@@ -158,6 +158,65 @@ describe('student page', { timeout: 60_000 }, () => {
         screen.getByRole('heading', { name: 'Shortlist for 2026-SP' }),
       ),
     );
+  });
+
+  it('says a withdrawn student’s standing above the electives', async () => {
+    await openStudent({
+      [`GET /students/${REF}`]: () => ({ status: 200, data: { ...STUDENT, status: 'withdrawn' } }),
+    });
+    const section = screen.getByRole('region', { name: /^Electives for/ });
+    const alert = within(section)
+      .getByText(/^Withdrawn:/)
+      .closest('[role="alert"]');
+    expect(alert).toHaveTextContent(
+      'Withdrawn: this student has left the university and is not registered for next term.',
+    );
+    // Above the list, not below it.
+    const table = within(section).getByRole('table');
+    expect(alert!.compareDocumentPosition(table) & Node.DOCUMENT_POSITION_FOLLOWING).toBeTruthy();
+  });
+
+  it('says nothing of standing for an active student', async () => {
+    await openStudent();
+    const section = screen.getByRole('region', { name: /^Electives for/ });
+    expect(within(section).queryByText(/^(Withdrawn|Graduated|On leave):/)).toBeNull();
+  });
+
+  it('shows a failed electives request as a failure in the shortlist, and holds the summary', async () => {
+    api = fakeAdvisingApi({
+      [`GET /students/${REF}/electives`]: () => ({
+        status: 500,
+        data: { statusCode: 500, message: 'Internal server error', error: 'Internal Server Error' },
+      }),
+      [`GET /students/${REF}/shortlist`]: () => ({
+        status: 200,
+        data: {
+          courseCodes: ['CMP 3110'],
+          items: [
+            {
+              courseCode: 'CMP 3110',
+              title: 'Machine Learning',
+              addedAt: '2026-03-02T09:20:00.000Z',
+              addedByName: null,
+              addedByEmail: 'advisor@halden.example',
+            },
+          ],
+          updatedAt: '2026-03-02T09:20:00.000Z',
+          updatedByName: null,
+          updatedByEmail: 'advisor@halden.example',
+        },
+      }),
+    });
+    signInAs('advisor');
+    renderApp(`/advising/students/${REF}`);
+    const shortlist = await screen.findByRole('table', { name: /^Shortlist/ });
+    const section = screen.getByRole('region', { name: /^Shortlist/ });
+    expect(
+      await within(section).findByText(/The estimates could not be loaded/),
+    ).toBeInTheDocument();
+    expect(bodyRows(shortlist)[0]).toHaveTextContent('Estimates not loaded.');
+    expect(shortlist).not.toHaveTextContent('Not among the electives');
+    expect(within(section).getByRole('button', { name: 'Send summary' })).toBeDisabled();
   });
 
   it('groups the course history by term, newest first', async () => {

@@ -8,7 +8,7 @@ import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
 import ArrowBack from '@mui/icons-material/ArrowBack';
 import Print from '@mui/icons-material/Print';
-import type { ElectiveEstimate } from '@kinpath/contracts';
+import type { ElectiveEstimate, StudentStatus } from '@kinpath/contracts';
 import { EstimateCautions } from '../../../components/EstimateCautions';
 import { PageHeader } from '../../../components/PageHeader';
 import { httpStatus } from '../../../lib/api-client';
@@ -27,7 +27,7 @@ import { PrintStyles } from '../components/PrintStyles';
 import { ShortlistSection } from '../components/ShortlistSection';
 import { StudentSummary } from '../components/StudentSummary';
 import { WhyDrawer } from '../components/WhyDrawer';
-import { dateTime } from '../format';
+import { dateTime, statusLabel } from '../format';
 
 function TermPicker({ value, onChange }: { value: string; onChange: (term: string) => void }) {
   const terms = useOfferedTerms();
@@ -61,8 +61,11 @@ function ElectivesSection({
   shortlisted,
   onShortlistChange,
   onWhy,
+  status,
 }: {
   studentRef: string;
+  /** The student's standing; anything but active is said above the list. */
+  status: StudentStatus | undefined;
   term: string | null;
   onTermChange: (term: string) => void;
   shortlisted: ReadonlySet<string>;
@@ -80,6 +83,12 @@ function ElectivesSection({
         </Typography>
         {data ? <TermPicker value={data.term} onChange={onTermChange} /> : null}
       </Box>
+      {status && status !== 'active' ? (
+        <Alert severity="warning" sx={{ mb: 1.5, maxWidth: '110ch' }}>
+          <strong>{statusLabel(status)}:</strong> {STANDING_NOTES[status]} The electives below are
+          worked out as for an enrolled student; confirm the student’s plans before using them.
+        </Alert>
+      ) : null}
       {data ? (
         <Box
           sx={{
@@ -160,6 +169,13 @@ function HistorySection({ studentRef }: { studentRef: string }) {
     </Box>
   );
 }
+
+/** What each standing other than active means for next term's electives. */
+const STANDING_NOTES: Record<Exclude<StudentStatus, 'active'>, string> = {
+  withdrawn: 'this student has left the university and is not registered for next term.',
+  graduated: 'this student has completed their program.',
+  on_leave: 'this student is on leave and may not return next term.',
+};
 
 function studentTitle(program: string | null | undefined, entryTerm: string | null | undefined) {
   if (!program) return 'Student';
@@ -249,6 +265,7 @@ export function StudentPage() {
         </Paper>
         <ElectivesSection
           studentRef={ref}
+          status={student.data?.status}
           term={term}
           onTermChange={setTerm}
           shortlisted={shortlisted}
@@ -273,6 +290,7 @@ export function StudentPage() {
             shortlist={shortlist.data}
             loadError={shortlist.isError}
             saveError={updateShortlist.isError}
+            electivesError={electives.isError}
             electives={byCode}
             onRemove={(courseCode) => changeShortlist(courseCode, false)}
           />
