@@ -30,6 +30,8 @@ export const ACCESS: Record<string, Rule> = {
   'POST /api/auth/refresh': { access: 'signed-in' },
   'POST /api/auth/logout': { access: 'signed-in' },
   'POST /api/auth/invitations/accept': { access: 'public' },
+  'POST /api/auth/invitations/check': { access: 'public' },
+  'POST /api/auth/password-reset/check': { access: 'public' },
   'POST /api/auth/password-reset': { access: 'public' },
   'POST /api/auth/password-reset/confirm': { access: 'public' },
 

@@ -15,6 +15,11 @@ export interface PasswordResetConfirmRequest {
 }
 
 /** The answer to accepting an invitation or setting a new password. */
+/** `POST /api/auth/invitations/check` and `/password-reset/check`: the link is usable, for this account. */
+export interface LinkCheckResponse {
+  email: string;
+}
+
 export interface PasswordSetResponse {
   email: string;
   message: string;
