@@ -37,7 +37,7 @@ describe('an invitation or reset link that cannot be used', () => {
   it('offers a new reset link for a spent reset link', async () => {
     await page.goto(`${baseUrl}/reset-password/${spent}`);
     await page.getByRole('alert').waitFor();
-    await page.getByRole('button', { name: 'Ask for a new link' }).click();
+    await page.getByRole('link', { name: 'Ask for a new link' }).click();
     await page.waitForURL('**/forgot-password');
   });
 });
