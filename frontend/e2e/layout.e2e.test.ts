@@ -57,6 +57,8 @@ const ROLES: { email: string; pages: Visit[] }[] = [
       byPath('/registrar/backtests', 'Backtests'),
       byPath('/outlook', 'Demand outlook'),
       byPath('/audit', 'Audit trail'),
+      byPath('/advising', 'Advising'),
+      studentPage(student),
     ],
   },
   { email: 'head.cmp@halden.example', pages: [byPath('/outlook', 'Demand outlook')] },
@@ -115,6 +117,8 @@ describe('every page fits its window', { timeout: 600_000 }, () => {
         await page.setViewportSize({ width, height: 900 });
         await visit.open(page);
         const found = await sidewaysScroll(page);
+        const titles = await page.evaluate(() => document.head.querySelectorAll('title').length);
+        if (titles !== 1) problems.push(`${label} ${visit.name}: ${titles} <title> elements`);
         if (found.scrollWidth > found.clientWidth) {
           problems.push(
             `${label} ${visit.name} at ${width}px: ${found.scrollWidth} > ${found.clientWidth} (${found.widest})`,

@@ -14,3 +14,4 @@ export * from './accounts';
 export * from './evaluations';
 export * from './forecasts';
 export * from './departments';
+export * from './figures';

@@ -108,8 +108,10 @@ export function useAddNote(ref: string) {
   });
 }
 
-export function useShortlist(ref: string) {
+/** Advisors' only: other roles (registrar staff) neither fetch nor see a shortlist. */
+export function useShortlist(ref: string, enabled = true) {
   return useQuery({
+    enabled,
     queryKey: advisingKeys.shortlist(ref),
     queryFn: async () => (await apiClient.get<Shortlist>(`${studentPath(ref)}/shortlist`)).data,
   });

@@ -63,7 +63,8 @@ interface ElectivesTableProps {
   term: string;
   labelledBy: string;
   shortlisted: ReadonlySet<string>;
-  onShortlistChange: (courseCode: string, shortlisted: boolean) => void;
+  /** Absent for roles that keep no shortlist: no shortlist column then. */
+  onShortlistChange?: (courseCode: string, shortlisted: boolean) => void;
   onWhy: (elective: ElectiveEstimate) => void;
 }
 
@@ -217,7 +218,7 @@ export function ElectivesTable({
     data: rows,
     meta: { shortlisted, onShortlistChange },
     columns,
-    state: { sorting },
+    state: { sorting, columnVisibility: { shortlist: onShortlistChange !== undefined } },
     onSortingChange: setSorting,
     // A header click flips the order; there is always one, so rows never fall back to arrival order.
     enableSortingRemoval: false,

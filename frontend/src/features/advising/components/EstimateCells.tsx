@@ -2,6 +2,7 @@ import type { ReactNode } from 'react';
 import Box from '@mui/material/Box';
 import Chip from '@mui/material/Chip';
 import type { ElectiveEstimate, EstimateBasis, EstimateConfidence } from '@kinpath/contracts';
+import { satisfactionText } from '../../../lib/format';
 import { BASIS_DESCRIPTIONS, BASIS_LABELS, CONFIDENCE_LABELS, fixed } from '../format';
 
 /** Kept here too, for the screens that import it from the estimate cells. */
@@ -48,7 +49,8 @@ export function PredictedGrade({ elective }: { elective: ElectiveEstimate }) {
 
 export function PredictedSatisfaction({ elective }: { elective: ElectiveEstimate }) {
   const basis = elective.predictedSatisfaction === null ? 'none' : elective.bases.satisfaction;
-  return <Estimate basis={basis}>{fixed(elective.predictedSatisfaction, 2)}</Estimate>;
+  const value = elective.predictedSatisfaction;
+  return <Estimate basis={basis}>{value === null ? null : satisfactionText(value)}</Estimate>;
 }
 
 const FIT_BASIS_NOTE = { grade: 'grade only', satisfaction: 'satisfaction only' } as const;

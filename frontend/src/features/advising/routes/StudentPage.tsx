@@ -11,6 +11,7 @@ import Print from '@mui/icons-material/Print';
 import type { ElectiveEstimate, StudentStatus } from '@kinpath/contracts';
 import { EstimateCautions } from '../../../components/EstimateCautions';
 import { PageHeader } from '../../../components/PageHeader';
+import { useAuth } from '../../auth/AuthProvider';
 import { httpStatus } from '../../../lib/api-client';
 import {
   useElectives,
@@ -69,7 +70,8 @@ function ElectivesSection({
   term: string | null;
   onTermChange: (term: string) => void;
   shortlisted: ReadonlySet<string>;
-  onShortlistChange: (courseCode: string, shortlisted: boolean) => void;
+  /** Absent for roles that keep no shortlist: the table has no shortlist column then. */
+  onShortlistChange?: (courseCode: string, shortlisted: boolean) => void;
   onWhy: (elective: ElectiveEstimate) => void;
 }) {
   const headingId = useId();
@@ -188,7 +190,9 @@ export function StudentPage() {
   const student = useStudent(ref);
   const [term, setTerm] = useState<string | null>(null);
   const [why, setWhy] = useState<ElectiveEstimate | null>(null);
-  const shortlist = useShortlist(ref);
+  // Shortlists, notes and summaries are advisors' work; registrar staff read the rest.
+  const advises = useAuth().user?.role === 'advisor';
+  const shortlist = useShortlist(ref, advises);
   const updateShortlist = useUpdateShortlist(ref);
   const electives = useElectives(ref, term);
   const byCode = useMemo(
@@ -269,7 +273,7 @@ export function StudentPage() {
           term={term}
           onTermChange={setTerm}
           shortlisted={shortlisted}
-          onShortlistChange={changeShortlist}
+          onShortlistChange={advises ? changeShortlist : undefined}
           onWhy={setWhy}
         />
         <Box className="kp-print-order-4">
@@ -284,19 +288,23 @@ export function StudentPage() {
             alignItems: 'start',
           }}
         >
-          <ShortlistSection
-            studentRef={ref}
-            term={shownTerm}
-            shortlist={shortlist.data}
-            loadError={shortlist.isError}
-            saveError={updateShortlist.isError}
-            electivesError={electives.isError}
-            electives={byCode}
-            onRemove={(courseCode) => changeShortlist(courseCode, false)}
-          />
-          <Box className="kp-no-print">
-            <NotesSection studentRef={ref} />
-          </Box>
+          {advises ? (
+            <ShortlistSection
+              studentRef={ref}
+              term={shownTerm}
+              shortlist={shortlist.data}
+              loadError={shortlist.isError}
+              saveError={updateShortlist.isError}
+              electivesError={electives.isError}
+              electives={byCode}
+              onRemove={(courseCode) => changeShortlist(courseCode, false)}
+            />
+          ) : null}
+          {advises ? (
+            <Box className="kp-no-print">
+              <NotesSection studentRef={ref} />
+            </Box>
+          ) : null}
         </Box>
         <HistorySection studentRef={ref} />
       </Box>

@@ -9,6 +9,7 @@ import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
 import Download from '@mui/icons-material/Download';
 import { auditActionLabel, type AuditEntry } from '@kinpath/contracts';
+import { NoMatch } from '../../../components/NoMatch';
 import { DataTable } from '../../../components/DataTable';
 import { PageHeader } from '../../../components/PageHeader';
 import { downloadAuditCsv, useAuditTrail, type AuditFilters } from '../api/audit';
@@ -83,6 +84,12 @@ export function AuditPage() {
     enableSorting: false,
     getCoreRowModel: getCoreRowModel(),
   });
+
+  const clearFilters = () => {
+    reset(NO_FILTERS);
+    setFilters(NO_FILTERS);
+    setPage(0);
+  };
 
   const apply = handleSubmit((values) => {
     setFilters(values);
@@ -167,15 +174,7 @@ export function AuditPage() {
           <Button type="submit" variant="contained">
             Apply filters
           </Button>
-          <Button
-            onClick={() => {
-              reset(NO_FILTERS);
-              setFilters(NO_FILTERS);
-              setPage(0);
-            }}
-          >
-            Clear
-          </Button>
+          <Button onClick={clearFilters}>Clear</Button>
         </Box>
       </Box>
       {exportError ? (
@@ -203,7 +202,13 @@ export function AuditPage() {
         labelledBy={headingId}
         dense
         cellSx={cellStyle}
-        empty={trail.isPending ? undefined : 'No entry matches these filters.'}
+        empty={
+          trail.isPending ? undefined : filters === NO_FILTERS ? (
+            'The audit trail is empty.'
+          ) : (
+            <NoMatch message="No entry matches these filters." onClear={clearFilters} />
+          )
+        }
       />
       <TablePagination
         component="div"
