@@ -9,6 +9,8 @@ export const STUDENT_AUDIT = {
   lookupNotFound: 'student.lookup_not_found',
   electivesViewed: 'student.electives_viewed',
   noteAdded: 'student.note_added',
+  noteEdited: 'student.note_edited',
+  noteDeleted: 'student.note_deleted',
   shortlistChanged: 'student.shortlist_changed',
   summarySent: 'student.summary_sent',
 } as const;

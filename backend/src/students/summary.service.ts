@@ -75,7 +75,12 @@ export class SummaryService {
       );
     }
     const sentAt = new Date();
-    // The address is the student's own data; the trail keeps what was sent, not where.
+    // Listed on the student page for advisors; the trail keeps what was sent, not where.
+    await this.dataSource.query(
+      `INSERT INTO sent_summaries (student_ref, sender_id, to_address, term, course_codes, sent_at)
+       VALUES ($1, $2, $3, $4, $5, $6)`,
+      [ref, actor.id, dto.to, estimates.term, codes, sentAt],
+    );
     await this.audit.record({
       actor,
       action: auditAction(STUDENT_AUDIT.summarySent),

@@ -7,6 +7,7 @@ import { ModelEvaluations1796184937000 } from './1796184937000-ModelEvaluations'
 import { DemandOutlook1796185100000 } from './1796185100000-DemandOutlook';
 import { ScoringStorage1796185200000 } from './1796185200000-ScoringStorage';
 import { Departments1796403900000 } from './1796403900000-Departments';
+import { NoteEditsAndSentSummaries1796405000000 } from './1796405000000-NoteEditsAndSentSummaries';
 
 /** Every migration, oldest first. A new migration is added here as well as to this folder. */
 export const MIGRATIONS = [
@@ -19,4 +20,5 @@ export const MIGRATIONS = [
   DemandOutlook1796185100000,
   ScoringStorage1796185200000,
   Departments1796403900000,
+  NoteEditsAndSentSummaries1796405000000,
 ];

@@ -219,6 +219,36 @@ describe('student page', { timeout: 60_000 }, () => {
     expect(within(section).getByRole('button', { name: 'Send summary' })).toBeDisabled();
   });
 
+  it('lets the author edit and delete their own note', async () => {
+    const { user } = await openStudent();
+    const notes = screen.getByRole('region', { name: 'Notes' });
+    await within(notes).findByText('Wants a studio course next to the compilers course.');
+    await user.click(within(notes).getByRole('button', { name: 'Edit' }));
+    const field = within(notes).getByLabelText('Note');
+    await user.clear(field);
+    await user.type(field, 'Wants two studio courses.');
+    await user.click(within(notes).getByRole('button', { name: 'Save note' }));
+    expect(await within(notes).findByText('Wants two studio courses.')).toBeInTheDocument();
+    expect(within(notes).getByText(/edited 2026-03-02/)).toBeInTheDocument();
+    expect(api?.requests.find((r) => r.method === 'PATCH')?.body).toEqual({
+      text: 'Wants two studio courses.',
+    });
+
+    await user.click(within(notes).getByRole('button', { name: 'Delete' }));
+    const dialog = within(await screen.findByRole('dialog', { name: 'Delete this note?' }));
+    await user.click(dialog.getByRole('button', { name: 'Delete note' }));
+    expect(await within(notes).findByText('No notes yet.')).toBeInTheDocument();
+  });
+
+  it('lists the summaries sent: date, address and courses', async () => {
+    await openStudent();
+    const sent = screen.getByRole('region', { name: 'Sent summaries' });
+    expect(
+      await within(sent).findByText('To student@halden.example, for 2026-SP: CMP 3110, ART 2210'),
+    ).toBeInTheDocument();
+    expect(sent).toHaveTextContent(/\d{4}-\d{2}-\d{2} \d{2}:\d{2} · Priya Okonkwo-Hale/);
+  });
+
   it('groups the course history by term, newest first', async () => {
     await openStudent();
     const history = await screen.findByRole('table', { name: 'Course history' });

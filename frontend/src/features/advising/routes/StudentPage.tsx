@@ -25,6 +25,7 @@ import { ElectivesTable } from '../components/ElectivesTable';
 import { HistoryTable } from '../components/HistoryTable';
 import { NotesSection } from '../components/NotesSection';
 import { PrintStyles } from '../components/PrintStyles';
+import { SentSummaries } from '../components/SentSummaries';
 import { ShortlistSection } from '../components/ShortlistSection';
 import { StudentSummary } from '../components/StudentSummary';
 import { WhyDrawer } from '../components/WhyDrawer';
@@ -301,8 +302,9 @@ export function StudentPage() {
             />
           ) : null}
           {advises ? (
-            <Box className="kp-no-print">
+            <Box className="kp-no-print" sx={{ display: 'grid', gap: 3, minWidth: 0 }}>
               <NotesSection studentRef={ref} />
+              <SentSummaries studentRef={ref} />
             </Box>
           ) : null}
         </Box>
