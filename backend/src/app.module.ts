@@ -6,6 +6,7 @@ import { CatalogueModule } from './catalogue/catalogue.module';
 import { HttpErrorFilter } from './common/http-error.filter';
 import { ConfigModule } from './config/config.module';
 import { DatabaseModule } from './database/database.module';
+import { DepartmentsModule } from './departments/departments.module';
 import { EvaluationsModule } from './evaluations/evaluations.module';
 import { ForecastsModule } from './forecasts/forecasts.module';
 import { GradeScaleModule } from './grade-scale/grade-scale.module';
@@ -25,6 +26,7 @@ import { UsersModule } from './users/users.module';
     AuditModule,
     PseudonymModule,
     TermDataModule,
+    DepartmentsModule,
     UsersModule,
     AuthModule,
     HealthModule,

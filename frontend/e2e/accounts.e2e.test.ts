@@ -60,7 +60,7 @@ describe('accounts: invite, accept, sign in; the audit trail', { timeout: 150_00
     await admin.getByRole('table', { name: 'Accounts' }).waitFor();
     await expectAccessible(admin);
 
-    await admin.getByLabel('Name').fill('Invited Advisor');
+    await admin.getByLabel('Name', { exact: true }).fill('Invited Advisor');
     await admin.getByLabel('E-mail').fill(email);
     await admin.getByRole('button', { name: 'Create account' }).click();
     await admin.getByText(/invitation e-mail is on its way/).waitFor();
@@ -97,14 +97,14 @@ describe('accounts: invite, accept, sign in; the audit trail', { timeout: 150_00
     await page.waitForURL('**/admin/users');
     await page.getByRole('link', { name: 'Audit trail' }).click();
     await page.getByRole('heading', { level: 1, name: 'Audit trail' }).waitFor();
-    await page.getByRole('table', { name: 'Entries' }).getByText('auth.sign_in').first().waitFor();
+    await page.getByRole('table', { name: 'Entries' }).getByText('Signed in').first().waitFor();
     await expectAccessible(page);
     await page.getByLabel('Action').selectOption('user.invitation_sent');
     await page.getByRole('button', { name: 'Apply filters' }).click();
     await page.getByText(/\d+ entries match/).waitFor();
     const actions = await page.locator('tbody tr td:nth-child(3)').allTextContents();
     expect(actions.length).toBeGreaterThan(0);
-    expect(new Set(actions)).toEqual(new Set(['user.invitation_sent']));
+    expect(new Set(actions)).toEqual(new Set(['Invitation sent']));
     const download = page.waitForEvent('download');
     await page.getByRole('button', { name: 'Download CSV' }).click();
     expect((await download).suggestedFilename()).toMatch(/^kinpath-audit-.*\.csv$/);

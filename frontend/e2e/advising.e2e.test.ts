@@ -1,34 +1,10 @@
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
-import { join, resolve } from 'node:path';
+import { join } from 'node:path';
 import { AxeBuilder } from '@axe-core/playwright';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { expectAccessible, forbidOtherHosts, launchBrowser, signIn } from './support/browser';
-
-const repoRoot = resolve(decodeURIComponent(new URL('../..', import.meta.url).pathname));
-
-/** The demo files the server loaded: where `npm test` or the dev server put them. */
-function demoDir(): string {
-  if (process.env.KINPATH_DEMO_DIR) return resolve(repoRoot, process.env.KINPATH_DEMO_DIR);
-  const serverEnv = process.env.KINPATH_TEST_SERVER_ENV;
-  if (serverEnv) {
-    const dir = (JSON.parse(serverEnv) as { KINPATH_DEMO_DIR?: string }).KINPATH_DEMO_DIR;
-    if (dir) return dir;
-  }
-  return join(repoRoot, '.data', 'test', 'demo');
-}
-
-function anActiveStudentNumber(): string {
-  const [header, ...lines] = readFileSync(join(demoDir(), 'students.csv'), 'utf8')
-    .trim()
-    .split(/\r?\n/);
-  const columns = header.split(',');
-  const id = columns.indexOf('student_id');
-  const status = columns.indexOf('status');
-  const row = lines.map((line) => line.split(',')).find((cells) => cells[status] === 'active');
-  if (!row) throw new Error('The demo has no active student.');
-  return row[id];
-}
+import { anActiveStudentNumber } from './support/demo';
 
 interface CaughtMail {
   to: string[] | string;

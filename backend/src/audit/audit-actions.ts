@@ -14,5 +14,7 @@ export const AUDIT_ACTIONS = {
   userUpdated: 'user.updated',
   demoLoaded: 'demo.loaded',
   firstAdminCreated: 'user.first_admin_created',
+  departmentAdded: 'department.added',
+  departmentRemoved: 'department.removed',
 } as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[keyof typeof AUDIT_ACTIONS];

@@ -18,11 +18,12 @@ describe('audit CSV', () => {
         actorEmail: '=HYPERLINK("x")',
         action: 'auth.sign_in_failed',
         target: null,
+        targetLabel: null,
         detail: { reason: 'a,"b"\nc' },
       },
     ]);
     const [header, row] = csv.split('\r\n');
-    expect(header).toBe('"at","actor_email","actor_id","action","target","detail"');
+    expect(header).toBe('"at","actor_email","actor_id","action","target","detail","target_label"');
     expect(row).toContain(`"'=HYPERLINK(""x"")"`);
     expect(csv).toContain('""reason"":""a,\\""b\\""\\nc""');
   });

@@ -9,7 +9,15 @@ export function neutraliseFormula(value: string): string {
   return /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
 }
 
-export const AUDIT_CSV_HEADER = ['at', 'actor_email', 'actor_id', 'action', 'target', 'detail'];
+export const AUDIT_CSV_HEADER = [
+  'at',
+  'actor_email',
+  'actor_id',
+  'action',
+  'target',
+  'detail',
+  'target_label',
+];
 
 export function auditCsv(entries: AuditEntry[]): string {
   const rows = entries.map((e) =>
@@ -20,6 +28,7 @@ export function auditCsv(entries: AuditEntry[]): string {
       e.action,
       e.target ?? '',
       Object.keys(e.detail).length > 0 ? JSON.stringify(e.detail) : '',
+      e.targetLabel ?? '',
     ].map(neutraliseFormula),
   );
   return stringify([AUDIT_CSV_HEADER, ...rows], { quoted_string: true, record_delimiter: '\r\n' });

@@ -1,4 +1,9 @@
-import type { LoginResponse, PasswordSetResponse, UserSummary } from '@kinpath/contracts';
+import type {
+  LinkCheckResponse,
+  LoginResponse,
+  PasswordSetResponse,
+  UserSummary,
+} from '@kinpath/contracts';
 import { Body, Controller, Get, HttpCode, Ip, Post } from '@nestjs/common';
 import {
   ApiAcceptedResponse,
@@ -18,6 +23,7 @@ import { AuthService } from './auth.service';
 import { CurrentSession, CurrentUser, Public, SignedIn } from './decorators';
 import {
   AcceptInvitationDto,
+  CheckLinkDto,
   ConfirmPasswordResetDto,
   RequestPasswordResetDto,
 } from './dto/account.dto';
@@ -80,6 +86,32 @@ export class AuthController {
   @ApiNoContentResponse({ description: 'Signed out.' })
   logout(@CurrentUser() user: User, @CurrentSession() session: RequestSession): Promise<void> {
     return this.auth.signOut(user, session);
+  }
+
+  @Public()
+  @RateLimit('accountLinks')
+  @Post('invitations/check')
+  @HttpCode(200)
+  @ApiOperation({
+    summary: 'Check an invitation link without using it, when its page opens.',
+    description: 'Answers `{ email }` while the link can set a password; nothing is spent.',
+  })
+  @ApiBadRequestResponse({ description: 'A link expired, used, revoked or malformed.' })
+  checkInvitation(@Body() dto: CheckLinkDto): Promise<LinkCheckResponse> {
+    return this.invitations.check(dto.token);
+  }
+
+  @Public()
+  @RateLimit('accountLinks')
+  @Post('password-reset/check')
+  @HttpCode(200)
+  @ApiOperation({
+    summary: 'Check a password reset link without using it, when its page opens.',
+    description: 'Answers `{ email }` while the link can set a password; nothing is spent.',
+  })
+  @ApiBadRequestResponse({ description: 'A link expired, used, revoked or malformed.' })
+  checkPasswordReset(@Body() dto: CheckLinkDto): Promise<LinkCheckResponse> {
+    return this.resets.check(dto.token);
   }
 
   @Public()

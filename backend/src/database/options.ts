@@ -1,6 +1,7 @@
 import type { DataSourceOptions } from 'typeorm';
 import type { DatabaseConfig } from '../config/config';
 import { AuditEvent } from '../audit/entities/audit-event.entity';
+import { Department } from '../departments/entities/department.entity';
 import { Course } from '../term-data/entities/course.entity';
 import { GradeScaleEntryEntity } from '../term-data/entities/grade-scale-entry.entity';
 import { Offering } from '../term-data/entities/offering.entity';
@@ -18,6 +19,7 @@ export const ENTITIES = [
   Student,
   StudentRecord,
   GradeScaleEntryEntity,
+  Department,
 ];
 
 /**

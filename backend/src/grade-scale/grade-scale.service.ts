@@ -50,13 +50,8 @@ export class GradeScaleService {
     if (repeated.length) {
       throw new BadRequestException(`${[...new Set(repeated)].join(', ')} appears more than once.`);
     }
-    for (let i = 1; i < letters.length; i++) {
-      if (letters[i].points > letters[i - 1].points) {
-        throw new BadRequestException(
-          `Letters go from best to worst: ${letters[i].letter} (${letters[i].points}) comes after ${letters[i - 1].letter} (${letters[i - 1].points}).`,
-        );
-      }
-    }
+    // Stored best first whatever order they came in, so a new top letter is one step.
+    letters.sort((a, b) => b.points - a.points);
     const threshold = letters.find((l) => l.letter === dto.passingThreshold.trim().toUpperCase());
     if (!threshold) {
       throw new BadRequestException(

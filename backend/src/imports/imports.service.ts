@@ -977,7 +977,7 @@ export class ImportsService implements OnApplicationBootstrap {
     manager: EntityManager,
     path: string,
     kind: ImportKind,
-    actor: Actor,
+    actor: Actor | null,
   ): Promise<{ id: string; rows: number }> {
     const runner = manager.queryRunner;
     if (!runner) throw new Error('importInTransaction needs a transaction.');
@@ -993,7 +993,7 @@ export class ImportsService implements OnApplicationBootstrap {
         this.safeFileName(path.split('/').pop() ?? kind),
         this.pseudonyms.fileDigest(found.sha256),
         found.bytes,
-        actor.id,
+        actor?.id ?? null,
       ],
     );
     const id = rows[0].id;
@@ -1015,7 +1015,7 @@ export class ImportsService implements OnApplicationBootstrap {
       );
       await this.record(actor, IMPORT_AUDIT.uploaded, id, { kind, demo: true }, manager);
       const commitStarted = Date.now();
-      await this.commitInTransaction(runner, id, kind, actor.id, commitStarted);
+      await this.commitInTransaction(runner, id, kind, actor?.id ?? null, commitStarted);
       return { id, rows: result.rowsAccepted };
     } finally {
       await removeQuietly(uploadPath(this.config.dataDir, id));

@@ -1,5 +1,5 @@
-import type { AdvisingNote, Shortlist, SummaryResponse } from '@kinpath/contracts';
-import { Body, Controller, Get, HttpCode, Param, Post, Put } from '@nestjs/common';
+import type { AdvisingNote, SentSummary, Shortlist, SummaryResponse } from '@kinpath/contracts';
+import { Body, Controller, Delete, Get, HttpCode, Param, Patch, Post, Put } from '@nestjs/common';
 import {
   ApiBadRequestResponse,
   ApiOperation,
@@ -40,6 +40,35 @@ export class AdvisingController {
     @CurrentUser() user: User,
   ): Promise<AdvisingNote> {
     return this.advising.addNote(ref, dto.text, user);
+  }
+
+  @Patch(':ref/notes/:id')
+  @ApiOperation({ summary: 'Change a note: its author only (403 for others).' })
+  @ApiBadRequestResponse({ description: 'Empty or too long.' })
+  editNote(
+    @Param('ref') ref: string,
+    @Param('id') id: string,
+    @Body() dto: CreateNoteDto,
+    @CurrentUser() user: User,
+  ): Promise<AdvisingNote> {
+    return this.advising.editNote(ref, id, dto.text, user);
+  }
+
+  @Delete(':ref/notes/:id')
+  @HttpCode(204)
+  @ApiOperation({ summary: 'Delete a note: its author only (403 for others).' })
+  async deleteNote(
+    @Param('ref') ref: string,
+    @Param('id') id: string,
+    @CurrentUser() user: User,
+  ): Promise<void> {
+    await this.advising.deleteNote(ref, id, user);
+  }
+
+  @Get(':ref/summaries')
+  @ApiOperation({ summary: 'Summaries e-mailed to the student: when, to whom, which courses.' })
+  sentSummaries(@Param('ref') ref: string): Promise<SentSummary[]> {
+    return this.advising.sentSummaries(ref);
   }
 
   @Get(':ref/shortlist')

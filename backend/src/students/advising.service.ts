@@ -1,6 +1,11 @@
-import type { AdvisingNote, Shortlist } from '@kinpath/contracts';
+import type { AdvisingNote, SentSummary, Shortlist } from '@kinpath/contracts';
 import { normalizeCourseCode } from '@kinpath/contracts';
-import { BadRequestException, Injectable } from '@nestjs/common';
+import {
+  BadRequestException,
+  ForbiddenException,
+  Injectable,
+  NotFoundException,
+} from '@nestjs/common';
 import { InjectDataSource } from '@nestjs/typeorm';
 import type { DataSource, EntityManager } from 'typeorm';
 import { AuditService } from '../audit/audit.service';
@@ -14,6 +19,7 @@ type Actor = Pick<User, 'id' | 'email'>;
 
 export const NOTE_HOLDS_NUMBER =
   'The note contains a student number; remove it, as notes must not hold one (the note is filed under this student already).';
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 /** Advising notes and the shortlist: kept per student ref, shared by every advisor. */
 @Injectable()
@@ -32,10 +38,11 @@ export class AdvisingService {
       id: string;
       text: string;
       created_at: Date;
+      edited_at: Date | null;
       display_name: string;
       email: string;
     }[] = await this.dataSource.query(
-      `SELECT n.id, n.text, n.created_at, u.display_name, u.email
+      `SELECT n.id, n.text, n.created_at, n.edited_at, u.display_name, u.email
        FROM advising_notes n JOIN users u ON u.id = n.author_id
        WHERE n.student_ref = $1 ORDER BY n.created_at DESC, n.id`,
       [ref],
@@ -44,6 +51,7 @@ export class AdvisingService {
       id: r.id,
       text: r.text,
       createdAt: new Date(r.created_at).toISOString(),
+      editedAt: r.edited_at ? new Date(r.edited_at).toISOString() : null,
       authorName: r.display_name,
       authorEmail: r.email,
     }));
@@ -70,6 +78,85 @@ export class AdvisingService {
       return rows[0].id;
     });
     return (await this.notes(ref)).find((n) => n.id === id) as AdvisingNote;
+  }
+
+  /** Only a note's author may change it; the trail records that it changed, not the words. */
+  async editNote(ref: string, id: string, text: string, actor: Actor): Promise<AdvisingNote> {
+    if (await this.numbers.mentionsStudent(text)) throw new BadRequestException(NOTE_HOLDS_NUMBER);
+    await this.dataSource.transaction(async (manager) => {
+      await this.ownNote(manager, ref, id, actor);
+      await manager.query(`UPDATE advising_notes SET text = $2, edited_at = now() WHERE id = $1`, [
+        id,
+        text,
+      ]);
+      await this.audit.record(
+        {
+          actor,
+          action: auditAction(STUDENT_AUDIT.noteEdited),
+          target: ref,
+          detail: { noteId: id, length: text.length },
+        },
+        manager,
+      );
+    });
+    return (await this.notes(ref)).find((n) => n.id === id) as AdvisingNote;
+  }
+
+  async deleteNote(ref: string, id: string, actor: Actor): Promise<void> {
+    await this.dataSource.transaction(async (manager) => {
+      await this.ownNote(manager, ref, id, actor);
+      await manager.query(`DELETE FROM advising_notes WHERE id = $1`, [id]);
+      await this.audit.record(
+        {
+          actor,
+          action: auditAction(STUDENT_AUDIT.noteDeleted),
+          target: ref,
+          detail: { noteId: id },
+        },
+        manager,
+      );
+    });
+  }
+
+  /** The note, locked, when it is this student's and the actor wrote it. */
+  private async ownNote(manager: EntityManager, ref: string, id: string, actor: Actor) {
+    await this.students.find(ref);
+    const rows: { author_id: string }[] = UUID.test(id)
+      ? await manager.query(
+          `SELECT author_id FROM advising_notes WHERE id = $1 AND student_ref = $2 FOR UPDATE`,
+          [id, ref],
+        )
+      : [];
+    if (!rows[0]) throw new NotFoundException('This note does not exist or was deleted.');
+    if (rows[0].author_id !== actor.id) {
+      throw new ForbiddenException('Only the advisor who wrote a note may change or delete it.');
+    }
+  }
+
+  /** Summaries e-mailed to the student, newest first. */
+  async sentSummaries(ref: string): Promise<SentSummary[]> {
+    await this.students.find(ref);
+    const rows: {
+      id: string;
+      sent_at: Date;
+      to_address: string;
+      term: string;
+      course_codes: string[];
+      display_name: string;
+    }[] = await this.dataSource.query(
+      `SELECT s.id, s.sent_at, s.to_address, s.term, s.course_codes, u.display_name
+       FROM sent_summaries s JOIN users u ON u.id = s.sender_id
+       WHERE s.student_ref = $1 ORDER BY s.sent_at DESC, s.id`,
+      [ref],
+    );
+    return rows.map((r) => ({
+      id: r.id,
+      sentAt: new Date(r.sent_at).toISOString(),
+      to: r.to_address,
+      term: r.term,
+      courseCodes: r.course_codes,
+      senderName: r.display_name,
+    }));
   }
 
   async shortlist(ref: string): Promise<Shortlist> {

@@ -11,6 +11,8 @@ export const STUDENT_AUDIT = {
   lookupMissesAlert: 'student.lookup_misses_alert',
   electivesViewed: 'student.electives_viewed',
   noteAdded: 'student.note_added',
+  noteEdited: 'student.note_edited',
+  noteDeleted: 'student.note_deleted',
   shortlistChanged: 'student.shortlist_changed',
   summarySent: 'student.summary_sent',
 } as const;

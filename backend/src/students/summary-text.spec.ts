@@ -64,7 +64,8 @@ describe('the advising summary e-mail', () => {
       'Expected grade: about B+ (3.28 grade points), likely B- to A-, based on 30 similar past students.',
     );
     expect(mail.text).toContain(
-      'Expected satisfaction: 3.7 out of 5, likely 2.9 to 4.6, based on 28 similar past students.',
+      // The screen's rule: two decimals, as the student page shows 3.72.
+      'Expected satisfaction: 3.72 out of 5, likely 2.9 to 4.6, based on 28 similar past students.',
     );
     expect(mail.text).toContain('Fit: 75 out of 100 (confidence: medium).');
     expect(mail.text).toContain(

@@ -1,5 +1,10 @@
 import type { ElectiveEstimate, LikelyRange } from '@kinpath/contracts';
-import { ESTIMATE_CAUTION_TITLE, ESTIMATE_CAUTIONS } from '@kinpath/contracts';
+import {
+  ESTIMATE_CAUTION_TITLE,
+  ESTIMATE_CAUTIONS,
+  gradePointsText,
+  satisfactionText,
+} from '@kinpath/contracts';
 
 export interface SummaryInput {
   term: string;
@@ -38,14 +43,14 @@ export function electiveLines(e: ElectiveEstimate): string[] {
     lines.push('Expected grade: no estimate, as there are no past results for this course.');
   } else {
     lines.push(
-      `Expected grade: about ${e.predictedGradeLetter} (${e.predictedGrade.toFixed(2)} grade points)${likely(e.likelyRange.grade)}, ${basis(e.bases.grade, e.neighbours.grade)}.`,
+      `Expected grade: about ${e.predictedGradeLetter} (${gradePointsText(e.predictedGrade)} grade points)${likely(e.likelyRange.grade)}, ${basis(e.bases.grade, e.neighbours.grade)}.`,
     );
   }
   if (e.predictedSatisfaction === null) {
     lines.push('Expected satisfaction: no estimate, as there are no past answers for this course.');
   } else {
     lines.push(
-      `Expected satisfaction: ${e.predictedSatisfaction.toFixed(1)} out of 5${likely(e.likelyRange.satisfaction)}, ${basis(e.bases.satisfaction, e.neighbours.satisfaction)}.`,
+      `Expected satisfaction: ${satisfactionText(e.predictedSatisfaction)} out of 5${likely(e.likelyRange.satisfaction)}, ${basis(e.bases.satisfaction, e.neighbours.satisfaction)}.`,
     );
   }
   if (e.fit !== null) {

@@ -6,6 +6,8 @@ import {
   Logger,
   ServiceUnavailableException,
 } from '@nestjs/common';
+import { InjectDataSource } from '@nestjs/typeorm';
+import type { DataSource } from 'typeorm';
 import { AuditService } from '../audit/audit.service';
 import { MailService } from '../mail/mail.service';
 import { ModelService } from '../model/model.service';
@@ -29,6 +31,7 @@ export class SummaryService {
     private readonly mail: MailService,
     private readonly audit: AuditService,
     private readonly numbers: StudentNumberCheck,
+    @InjectDataSource() private readonly dataSource: DataSource,
   ) {}
 
   async send(
@@ -69,7 +72,12 @@ export class SummaryService {
       );
     }
     const sentAt = new Date();
-    // The address is the student's own data; the trail keeps what was sent, not where.
+    // Listed on the student page for advisors; the trail keeps what was sent, not where.
+    await this.dataSource.query(
+      `INSERT INTO sent_summaries (student_ref, sender_id, to_address, term, course_codes, sent_at)
+       VALUES ($1, $2, $3, $4, $5, $6)`,
+      [ref, actor.id, dto.to, estimates.term, codes, sentAt],
+    );
     await this.audit.record({
       actor,
       action: auditAction(STUDENT_AUDIT.summarySent),

@@ -54,6 +54,25 @@ export async function issueToken(
 }
 
 /**
+ * The user of a usable token, without spending it: a link is checked when it is opened, so a
+ * spent or mistyped one says so before anyone types a password. Null as for `consumeToken`.
+ */
+export async function peekToken(
+  manager: EntityManager,
+  token: string,
+  purpose: AccountTokenPurpose,
+): Promise<string | null> {
+  if (!TOKEN_FORM.test(token)) return null;
+  const rows: Array<{ user_id: string }> = await manager.query(
+    `SELECT user_id FROM account_tokens
+     WHERE token_hash = $1 AND purpose = $2 AND used_at IS NULL AND revoked_at IS NULL
+       AND expires_at > now()`,
+    [tokenHash(token), purpose],
+  );
+  return rows[0]?.user_id ?? null;
+}
+
+/**
  * Marks a usable token as used and returns its user, in the caller's transaction;
  * null when the token is unknown, used, revoked or expired (one answer for all).
  */

@@ -11,7 +11,7 @@ import { AuditService } from '../audit/audit.service';
 import type { AppConfig } from '../config/config';
 import { InjectConfig } from '../config/config.provider';
 import { MailService } from '../mail/mail.service';
-import { consumeToken, issueToken, revokeOpenTokens } from './account-tokens';
+import { consumeToken, issueToken, peekToken, revokeOpenTokens } from './account-tokens';
 import { invitationMail } from './account-mail';
 import { User } from './entities/user.entity';
 import { hashPassword } from './passwords';
@@ -67,6 +67,20 @@ export class InvitationsService {
         manager,
       );
     });
+  }
+
+  /** Whether an invitation link can still set a password, without spending it. */
+  async check(token: string): Promise<{ email: string }> {
+    const userId = await peekToken(this.users.manager, token, 'invitation');
+    const user = userId
+      ? await this.users
+          .createQueryBuilder('user')
+          .addSelect('user.passwordHash')
+          .where('user.id = :id', { id: userId })
+          .getOne()
+      : null;
+    if (!user || user.passwordHash !== null) throw new BadRequestException(LINK_NOT_USABLE);
+    return { email: user.email };
   }
 
   /** Sets the password and activates the account; the link is spent either way. */

@@ -7,7 +7,7 @@ import { endUserSessions } from '../auth/sessions';
 import type { AppConfig } from '../config/config';
 import { InjectConfig } from '../config/config.provider';
 import { MailService } from '../mail/mail.service';
-import { consumeToken, issueToken } from './account-tokens';
+import { consumeToken, issueToken, peekToken } from './account-tokens';
 import { passwordResetMail } from './account-mail';
 import { User } from './entities/user.entity';
 import { LINK_NOT_USABLE } from './invitations.service';
@@ -40,6 +40,14 @@ export class PasswordResetService {
       this.logger.error(`A password reset e-mail failed: ${(error as Error)?.message ?? error}`),
     );
     return { message: RESET_REQUESTED };
+  }
+
+  /** Whether a reset link can still set a password, without spending it. */
+  async check(token: string): Promise<{ email: string }> {
+    const userId = await peekToken(this.users.manager, token, 'password_reset');
+    const user = userId ? await this.users.findOneBy({ id: userId }) : null;
+    if (!user || !user.active) throw new BadRequestException(LINK_NOT_USABLE);
+    return { email: user.email };
   }
 
   async confirm(token: string, password: string): Promise<{ email: string }> {

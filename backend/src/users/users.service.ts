@@ -11,6 +11,7 @@ import type { EntityManager, Repository } from 'typeorm';
 import { AUDIT_ACTIONS } from '../audit/audit-actions';
 import { AuditService } from '../audit/audit.service';
 import { endUserSessions } from '../auth/sessions';
+import { DepartmentsService } from '../departments/departments.service';
 import type { CreateUserDto } from './dto/create-user.dto';
 import type { UpdateUserDto } from './dto/update-user.dto';
 import { User } from './entities/user.entity';
@@ -40,6 +41,7 @@ export class UsersService {
     @InjectRepository(User) private readonly users: Repository<User>,
     private readonly audit: AuditService,
     private readonly invitations: InvitationsService,
+    private readonly departments: DepartmentsService,
   ) {}
 
   findById(id: string): Promise<User | null> {
@@ -81,6 +83,9 @@ export class UsersService {
 
   async create(actor: User, dto: CreateUserDto): Promise<CreateUserResponse> {
     const user = await this.users.manager.transaction(async (manager) => {
+      if (dto.role === 'department_head' && dto.department) {
+        await this.departments.assertKnown(dto.department, manager);
+      }
       const created = await this.insert(dto, manager);
       await this.audit.record(
         {
@@ -162,6 +167,10 @@ export class UsersService {
       }
       if (role === 'department_head' && !department) {
         throw new BadRequestException(HEAD_NEEDS_DEPARTMENT);
+      }
+      const newScope = role !== user.role || department !== user.department;
+      if (role === 'department_head' && department && newScope) {
+        await this.departments.assertKnown(department, manager);
       }
       const active = dto.active ?? user.active;
       if (active && user.passwordHash === null) {

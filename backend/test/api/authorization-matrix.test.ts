@@ -30,6 +30,8 @@ export const ACCESS: Record<string, Rule> = {
   'POST /api/auth/refresh': { access: 'signed-in' },
   'POST /api/auth/logout': { access: 'signed-in' },
   'POST /api/auth/invitations/accept': { access: 'public' },
+  'POST /api/auth/invitations/check': { access: 'public' },
+  'POST /api/auth/password-reset/check': { access: 'public' },
   'POST /api/auth/password-reset': { access: 'public' },
   'POST /api/auth/password-reset/confirm': { access: 'public' },
 
@@ -38,6 +40,10 @@ export const ACCESS: Record<string, Rule> = {
   'PATCH /api/users/{id}': { access: ADMIN },
   'POST /api/users/{id}/invitation': { access: ADMIN },
   'DELETE /api/users/{id}/invitation': { access: ADMIN },
+
+  'GET /api/departments': { access: 'signed-in' },
+  'POST /api/departments': { access: ADMIN },
+  'DELETE /api/departments/{code}': { access: ADMIN },
 
   'GET /api/audit': { access: ['admin', 'registrar'] },
 
@@ -72,6 +78,9 @@ export const ACCESS: Record<string, Rule> = {
   'GET /api/students/{ref}/electives/{courseCode}/explanation': { access: ADVISING },
   'GET /api/students/{ref}/notes': { access: ADVISOR },
   'POST /api/students/{ref}/notes': { access: ADVISOR },
+  'PATCH /api/students/{ref}/notes/{id}': { access: ADVISOR },
+  'DELETE /api/students/{ref}/notes/{id}': { access: ADVISOR },
+  'GET /api/students/{ref}/summaries': { access: ADVISOR },
   'GET /api/students/{ref}/shortlist': { access: ADVISOR },
   'PUT /api/students/{ref}/shortlist': { access: ADVISOR },
   'POST /api/students/{ref}/summary': { access: ADVISOR },
@@ -136,6 +145,12 @@ beforeAll(async () => {
     tokens.set(role, await signIn(DEMO_USERS[role], DEMO_PASSWORD, server.url));
   const admin = tokens.get('admin')!;
   const otherHead = { email: 'head.mth@halden.example', password: 'bramble-harbour-lantern-5' };
+  // No catalogue on this server: the head's department is added by hand first.
+  await request(server.url)
+    .post('/api/departments')
+    .set(...bearer(admin))
+    .send({ code: 'MTH' })
+    .expect(201);
   const created = await request(server.url)
     .post('/api/users')
     .set(...bearer(admin))

@@ -129,6 +129,42 @@ describe('creating users', () => {
     expect(res.status).toBe(400);
   });
 
+  it('refuses a department code that is on no list, with a 400 that says what to do', async () => {
+    const res = await api()
+      .post('/api/users')
+      .set(...bearer(admin))
+      .send({
+        email: uniqueEmail('head.xyz'),
+        displayName: 'Head of nothing',
+        role: 'department_head',
+        department: 'XYZ',
+        password: 'long-enough-pass',
+      });
+    expect(res.status).toBe(400);
+    expect(res.body.message).toBe(
+      'XYZ is not a department of the catalogue. Choose one from the list, or add it under Departments first.',
+    );
+    const list = await api()
+      .get('/api/users')
+      .set(...bearer(admin));
+    expect(list.body.some((u: { department: string | null }) => u.department === 'XYZ')).toBe(
+      false,
+    );
+  });
+
+  it('refuses moving a head to an unknown department', async () => {
+    const list = await api()
+      .get('/api/users')
+      .set(...bearer(admin));
+    const head = list.body.find((u: { email: string }) => u.email === DEMO_USERS.department_head);
+    const res = await api()
+      .patch(`/api/users/${head.id}`)
+      .set(...bearer(admin))
+      .send({ department: 'QQQ' });
+    expect(res.status).toBe(400);
+    expect(res.body.message).toMatch(/^QQQ is not a department of the catalogue/);
+  });
+
   it('creates a head of a department', async () => {
     const res = await api()
       .post('/api/users')
@@ -247,5 +283,86 @@ describe('changing users', () => {
       .set(...bearer(admin))
       .send({ displayName: 'Ghost' });
     expect(malformed.status).toBe(404);
+  });
+});
+
+describe('departments', () => {
+  it('lists the catalogue’s departments to anyone signed in', async () => {
+    const advisor = await signIn(DEMO_USERS.advisor);
+    const res = await api()
+      .get('/api/departments')
+      .set(...bearer(advisor));
+    expect(res.status).toBe(200);
+    const cmp = res.body.find((d: { code: string }) => d.code === 'CMP');
+    expect(cmp).toMatchObject({ code: 'CMP', added: false });
+    expect(cmp.courses).toBeGreaterThan(0);
+    expect(cmp.heads).toBeGreaterThanOrEqual(1);
+  });
+
+  it('lets an admin add a department, scope a head to it, and remove it only once unused', async () => {
+    const code = `Q${Math.random()
+      .toString(36)
+      .replace(/[^a-z]/g, '')
+      .slice(0, 4)
+      .toUpperCase()}`;
+    const added = await api()
+      .post('/api/departments')
+      .set(...bearer(admin))
+      .send({ code: code.toLowerCase(), name: 'Quiet Studies' });
+    expect(added.status).toBe(201);
+    expect(added.body).toEqual({ code, name: 'Quiet Studies', courses: 0, added: true, heads: 0 });
+    const again = await api()
+      .post('/api/departments')
+      .set(...bearer(admin))
+      .send({ code });
+    expect(again.status).toBe(409);
+    const catalogue = await api()
+      .post('/api/departments')
+      .set(...bearer(admin))
+      .send({ code: 'CMP' });
+    expect(catalogue.status).toBe(409);
+
+    const head = await api()
+      .post('/api/users')
+      .set(...bearer(admin))
+      .send({
+        email: uniqueEmail('head.q'),
+        displayName: 'Head of Quiet Studies',
+        role: 'department_head',
+        department: code,
+        password: 'long-enough-pass',
+      });
+    expect(head.status).toBe(201);
+    const inUse = await api()
+      .delete(`/api/departments/${code}`)
+      .set(...bearer(admin));
+    expect(inUse.status).toBe(409);
+
+    await api()
+      .patch(`/api/users/${head.body.id}`)
+      .set(...bearer(admin))
+      .send({ role: 'advisor' })
+      .expect(200);
+    await api()
+      .delete(`/api/departments/${code}`)
+      .set(...bearer(admin))
+      .expect(204);
+    const after = await api()
+      .get('/api/departments')
+      .set(...bearer(admin));
+    expect(after.body.some((d: { code: string }) => d.code === code)).toBe(false);
+  });
+
+  it('keeps the catalogue’s departments and refuses other roles', async () => {
+    await api()
+      .delete('/api/departments/CMP')
+      .set(...bearer(admin))
+      .expect(404);
+    const registrar = await signIn(DEMO_USERS.registrar);
+    await api()
+      .post('/api/departments')
+      .set(...bearer(registrar))
+      .send({ code: 'ZZZ' })
+      .expect(403);
   });
 });

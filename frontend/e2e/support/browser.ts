@@ -37,14 +37,18 @@ export async function signIn(page: Page, email: string, password = DEMO_PASSWORD
   await page.getByRole('button', { name: 'Sign in' }).click();
 }
 
-/** Runs axe-core at WCAG 2.1 A and AA and expects no violations. */
-export async function expectAccessible(page: Page): Promise<void> {
+/** axe-core's violations at WCAG 2.1 A and AA, one line each. */
+export async function accessibilityProblems(page: Page): Promise<string[]> {
   const results = await new AxeBuilder({ page })
     .withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'])
     .analyze();
-  const summary = results.violations.map(
+  return results.violations.map(
     (v) =>
       `${v.id} (${v.impact}): ${v.help} — ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`,
   );
-  expect(summary).toEqual([]);
+}
+
+/** Runs axe-core at WCAG 2.1 A and AA and expects no violations. */
+export async function expectAccessible(page: Page): Promise<void> {
+  expect(await accessibilityProblems(page)).toEqual([]);
 }

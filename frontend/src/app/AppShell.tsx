@@ -99,10 +99,10 @@ function RoleNavigation({ role }: { role: Role }) {
     >
       <List
         dense
-        // On narrow screens the links run in rows that wrap, never wider than the page.
         sx={{
           display: 'flex',
           flexDirection: { xs: 'row', md: 'column' },
+          // A narrow window wraps the links onto more lines instead of scrolling the page.
           flexWrap: { xs: 'wrap', md: 'nowrap' },
           gap: 0.5,
           p: 1,

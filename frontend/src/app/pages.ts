@@ -10,7 +10,8 @@ export interface RolePage {
 }
 
 export const PAGES = {
-  advising: { path: '/advising', navLabel: 'Student lookup', roles: ['advisor'] },
+  // Registrar staff may look students up too (api.md); shortlists, notes and summaries stay advisors'.
+  advising: { path: '/advising', navLabel: 'Student lookup', roles: ['advisor', 'registrar'] },
   registrar: {
     path: '/registrar',
     navLabel: 'Registrar overview',
@@ -50,6 +51,7 @@ const NAVIGATION: Record<Role, readonly PageKey[]> = {
     'backtests',
     'outlook',
     'audit',
+    'advising',
   ],
   department_head: ['outlook'],
   admin: ['users', 'audit'],

@@ -94,6 +94,9 @@ export const theme = createTheme({
         }),
       },
     },
+    // Hidden header text is positioned absolutely: a scrolling table must be its containing
+    // block, or that text lands beyond the window and the whole page scrolls sideways.
+    MuiTableContainer: { styleOverrides: { root: { position: 'relative' } } },
     MuiTableCell: {
       defaultProps: { size: 'small' },
       styleOverrides: { head: { fontWeight: 700, whiteSpace: 'nowrap' } },

@@ -8,6 +8,7 @@ import {
   type Table as TableModel,
 } from '@tanstack/react-table';
 import type { SxProps, Theme } from '@mui/material/styles';
+import { scrollRegionProps, useSidewaysOverflow } from '../lib/scroll-region';
 import Paper from '@mui/material/Paper';
 import Table from '@mui/material/Table';
 import TableBody from '@mui/material/TableBody';
@@ -39,7 +40,10 @@ interface DataTableProps<T extends RowData> {
   dense?: boolean;
   /** Shades the row under the pointer, for tables whose rows are read across or acted on. */
   hover?: boolean;
-  /** Focusable and named, so that a narrow window can be scrolled sideways from the keyboard. */
+  /**
+   * Always focusable and named, so a narrow window can be scrolled sideways from the keyboard.
+   * Without it, the table becomes so only while it is wider than its box.
+   */
   scrollable?: boolean;
   /** Styles of the table element: padding and header wrapping. */
   sx?: SxProps<Theme>;
@@ -99,6 +103,7 @@ export function DataTable<T extends RowData>({
 }: DataTableProps<T>) {
   const rows = table.getRowModel().rows;
   const width = table.getVisibleLeafColumns().length;
+  const sideways = useSidewaysOverflow<HTMLDivElement>();
   // Client-side pages; a table paged by the server (the audit trail) keeps its own pager.
   const paginated = table.options.getPaginationRowModel !== undefined;
   const { pageIndex, pageSize } = table.getState().pagination;
@@ -128,7 +133,10 @@ export function DataTable<T extends RowData>({
     <TableContainer
       component={Paper}
       variant="outlined"
-      {...(scrollable ? { tabIndex: 0, role: 'region', 'aria-labelledby': labelledBy } : {})}
+      ref={sideways.ref}
+      {...(scrollable || sideways.overflowing
+        ? scrollRegionProps({ labelledBy, label: labelledBy ? undefined : 'Table' })
+        : {})}
     >
       <Table aria-labelledby={labelledBy} size={dense ? 'small' : undefined} sx={sx}>
         {caption ? (

@@ -1,10 +1,18 @@
+import { useEffect } from 'react';
+
 export const APP_NAME = 'Kinpath';
 
 export function pageTitle(title: string): string {
   return `${title} · ${APP_NAME}`;
 }
 
-/** Sets the browser tab's title; React places `<title>` in the document head. */
+/**
+ * Sets the browser tab's title on the one `<title>` of index.html. Rendering a `<title>` element
+ * instead would add a second one to the head beside it.
+ */
 export function PageTitle({ title }: { title: string }) {
-  return <title>{pageTitle(title)}</title>;
+  useEffect(() => {
+    document.title = pageTitle(title);
+  }, [title]);
+  return null;
 }

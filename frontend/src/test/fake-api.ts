@@ -20,6 +20,8 @@ export interface RecordedRequest {
   method: string;
   url: string;
   body: unknown;
+  /** The query parameters, as the client passed them. */
+  params?: Record<string, unknown>;
   authorization: string | undefined;
 }
 
@@ -41,6 +43,7 @@ export function installFakeApi(handlers: Record<string, FakeHandler>) {
       method,
       url,
       body,
+      params: config.params as Record<string, unknown> | undefined,
       authorization: typeof authorization === 'string' ? authorization : undefined,
     });
 

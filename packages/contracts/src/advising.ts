@@ -193,8 +193,20 @@ export interface AdvisingNote {
   id: string;
   text: string;
   createdAt: string;
+  /** When its author last changed it; null if never. */
+  editedAt: string | null;
   authorName: string;
   authorEmail: string;
+}
+
+/** A summary e-mailed to the student, as the student page lists them: never a student number. */
+export interface SentSummary {
+  id: string;
+  sentAt: string;
+  to: string;
+  term: string;
+  courseCodes: string[];
+  senderName: string;
 }
 
 export interface CreateNoteRequest {

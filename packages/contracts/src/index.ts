@@ -13,3 +13,5 @@ export * from './advising';
 export * from './accounts';
 export * from './evaluations';
 export * from './forecasts';
+export * from './departments';
+export * from './figures';

@@ -21,6 +21,16 @@ export class AuditQueryDto {
   actor?: string;
 
   @ApiPropertyOptional({
+    example: 'records.csv',
+    description:
+      'Part of the target: an account’s e-mail, an import’s file name, a department code, a student ref.',
+  })
+  @IsOptional()
+  @IsString()
+  @MaxLength(254)
+  target?: string;
+
+  @ApiPropertyOptional({
     example: '2026-03-01',
     description: 'From this moment (a date: its start).',
   })

@@ -6,6 +6,14 @@ import { IsAcceptablePassword } from '../password-policy';
 
 const LINK_FORM = 'The link is not complete: open it again from the e-mail.';
 
+/** A link's token alone, to check it before a password is chosen. */
+export class CheckLinkDto {
+  @ApiProperty({ description: 'The token from the invitation or reset link.' })
+  @IsString({ message: LINK_FORM })
+  @Matches(TOKEN_FORM, { message: LINK_FORM })
+  token: string;
+}
+
 export class AcceptInvitationDto {
   @ApiProperty({ description: 'The token from the invitation link.' })
   @IsString({ message: LINK_FORM })

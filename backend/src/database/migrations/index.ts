@@ -7,8 +7,10 @@ import { ModelEvaluations1796184937000 } from './1796184937000-ModelEvaluations'
 import { DemandOutlook1796185100000 } from './1796185100000-DemandOutlook';
 import { ScoringStorage1796185200000 } from './1796185200000-ScoringStorage';
 import { ImportFilePrivacy1796403727902 } from './1796403727902-ImportFilePrivacy';
+import { Departments1796403900000 } from './1796403900000-Departments';
 import { EstimatorSettings1796404426012 } from './1796404426012-EstimatorSettings';
 import { ChoiceOutlook1796404495670 } from './1796404495670-ChoiceOutlook';
+import { NoteEditsAndSentSummaries1796405000000 } from './1796405000000-NoteEditsAndSentSummaries';
 
 /** Every migration, oldest first. A new migration is added here as well as to this folder. */
 export const MIGRATIONS = [
@@ -21,6 +23,8 @@ export const MIGRATIONS = [
   DemandOutlook1796185100000,
   ScoringStorage1796185200000,
   ImportFilePrivacy1796403727902,
+  Departments1796403900000,
   EstimatorSettings1796404426012,
   ChoiceOutlook1796404495670,
+  NoteEditsAndSentSummaries1796405000000,
 ];

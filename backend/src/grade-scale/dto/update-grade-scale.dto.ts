@@ -39,7 +39,7 @@ export class GradeMarkDto {
 }
 
 export class UpdateGradeScaleDto {
-  @ApiProperty({ type: [GradeLetterDto], description: 'Best first.' })
+  @ApiProperty({ type: [GradeLetterDto], description: 'Any order: stored best first, by points.' })
   @ValidateNested({ each: true })
   @Type(() => GradeLetterDto)
   @ArrayMinSize(2)

@@ -3,7 +3,7 @@ import { configure, screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { ESTIMATE_CAUTION_TITLE } from '@kinpath/contracts';
 import { renderApp, signInAs } from '../../test/render';
-import { fakeAdvisingApi, REF } from './test/fixtures';
+import { fakeAdvisingApi, REF, STUDENT } from './test/fixtures';
 
 // The whole app renders in jsdom; screens that wait on the (fake) API get time on a busy machine.
 configure({ asyncUtilTimeout: 10_000 });
@@ -11,8 +11,8 @@ configure({ asyncUtilTimeout: 10_000 });
 let api: ReturnType<typeof fakeAdvisingApi> | undefined;
 afterEach(() => api?.restore());
 
-async function openStudent() {
-  api = fakeAdvisingApi();
+async function openStudent(overrides: Parameters<typeof fakeAdvisingApi>[0] = {}) {
+  api = fakeAdvisingApi(overrides);
   signInAs('advisor');
   const rendered = renderApp(`/advising/students/${REF}`);
   const table = await screen.findByRole('table', { name: /^Electives for 2026-SP/ });
@@ -135,6 +135,122 @@ describe('student page', { timeout: 60_000 }, () => {
     const shortlist = await screen.findByRole('table', { name: 'Shortlist for 2026-SP' });
     await waitFor(() => expect(bodyRows(shortlist)).toHaveLength(2));
     expect(rowFor(shortlist, 'ART 2210')).toHaveTextContent('baseline — too few kin');
+  });
+
+  it('keeps keyboard focus on a ticked box and on the shortlist after "Remove"', async () => {
+    const { table, user } = await openStudent();
+    const box = within(table).getByRole('checkbox', { name: /Shortlist CMP 3110/ });
+    box.focus();
+    await user.keyboard(' ');
+    const shortlist = await screen.findByRole('table', { name: 'Shortlist for 2026-SP' });
+    await waitFor(() => expect(bodyRows(shortlist)).toHaveLength(1));
+    // The same box, still focused: not a new one put in its place.
+    expect(within(table).getByRole('checkbox', { name: /Shortlist CMP 3110/ })).toBe(box);
+    expect(document.activeElement).toBe(box);
+
+    await user.click(within(table).getByRole('checkbox', { name: /Shortlist ART 2210/ }));
+    await waitFor(() => expect(bodyRows(shortlist)).toHaveLength(2));
+    await user.click(screen.getByRole('button', { name: 'Remove CMP 3110 from the shortlist' }));
+    await waitFor(() =>
+      expect(document.activeElement).toBe(
+        screen.getByRole('button', { name: 'Remove ART 2210 from the shortlist' }),
+      ),
+    );
+    await user.click(screen.getByRole('button', { name: 'Remove ART 2210 from the shortlist' }));
+    await waitFor(() =>
+      expect(document.activeElement).toBe(
+        screen.getByRole('heading', { name: 'Shortlist for 2026-SP' }),
+      ),
+    );
+  });
+
+  it('says a withdrawn student’s standing above the electives', async () => {
+    await openStudent({
+      [`GET /students/${REF}`]: () => ({ status: 200, data: { ...STUDENT, status: 'withdrawn' } }),
+    });
+    const section = screen.getByRole('region', { name: /^Electives for/ });
+    const alert = within(section)
+      .getByText(/^Withdrawn:/)
+      .closest('[role="alert"]');
+    expect(alert).toHaveTextContent(
+      'Withdrawn: this student has left the university and is not registered for next term.',
+    );
+    // Above the list, not below it.
+    const table = within(section).getByRole('table');
+    expect(alert!.compareDocumentPosition(table) & Node.DOCUMENT_POSITION_FOLLOWING).toBeTruthy();
+  });
+
+  it('says nothing of standing for an active student', async () => {
+    await openStudent();
+    const section = screen.getByRole('region', { name: /^Electives for/ });
+    expect(within(section).queryByText(/^(Withdrawn|Graduated|On leave):/)).toBeNull();
+  });
+
+  it('shows a failed electives request as a failure in the shortlist, and holds the summary', async () => {
+    api = fakeAdvisingApi({
+      [`GET /students/${REF}/electives`]: () => ({
+        status: 500,
+        data: { statusCode: 500, message: 'Internal server error', error: 'Internal Server Error' },
+      }),
+      [`GET /students/${REF}/shortlist`]: () => ({
+        status: 200,
+        data: {
+          courseCodes: ['CMP 3110'],
+          items: [
+            {
+              courseCode: 'CMP 3110',
+              title: 'Machine Learning',
+              addedAt: '2026-03-02T09:20:00.000Z',
+              addedByName: null,
+              addedByEmail: 'advisor@halden.example',
+            },
+          ],
+          updatedAt: '2026-03-02T09:20:00.000Z',
+          updatedByName: null,
+          updatedByEmail: 'advisor@halden.example',
+        },
+      }),
+    });
+    signInAs('advisor');
+    renderApp(`/advising/students/${REF}`);
+    const shortlist = await screen.findByRole('table', { name: /^Shortlist/ });
+    const section = screen.getByRole('region', { name: /^Shortlist/ });
+    expect(
+      await within(section).findByText(/The estimates could not be loaded/),
+    ).toBeInTheDocument();
+    expect(bodyRows(shortlist)[0]).toHaveTextContent('Estimates not loaded.');
+    expect(shortlist).not.toHaveTextContent('Not among the electives');
+    expect(within(section).getByRole('button', { name: 'Send summary' })).toBeDisabled();
+  });
+
+  it('lets the author edit and delete their own note', async () => {
+    const { user } = await openStudent();
+    const notes = screen.getByRole('region', { name: 'Notes' });
+    await within(notes).findByText('Wants a studio course next to the compilers course.');
+    await user.click(within(notes).getByRole('button', { name: 'Edit' }));
+    const field = within(notes).getByLabelText('Note');
+    await user.clear(field);
+    await user.type(field, 'Wants two studio courses.');
+    await user.click(within(notes).getByRole('button', { name: 'Save note' }));
+    expect(await within(notes).findByText('Wants two studio courses.')).toBeInTheDocument();
+    expect(within(notes).getByText(/edited 2026-03-02/)).toBeInTheDocument();
+    expect(api?.requests.find((r) => r.method === 'PATCH')?.body).toEqual({
+      text: 'Wants two studio courses.',
+    });
+
+    await user.click(within(notes).getByRole('button', { name: 'Delete' }));
+    const dialog = within(await screen.findByRole('dialog', { name: 'Delete this note?' }));
+    await user.click(dialog.getByRole('button', { name: 'Delete note' }));
+    expect(await within(notes).findByText('No notes yet.')).toBeInTheDocument();
+  });
+
+  it('lists the summaries sent: date, address and courses', async () => {
+    await openStudent();
+    const sent = screen.getByRole('region', { name: 'Sent summaries' });
+    expect(
+      await within(sent).findByText('To student@halden.example, for 2026-SP: CMP 3110, ART 2210'),
+    ).toBeInTheDocument();
+    expect(sent).toHaveTextContent(/\d{4}-\d{2}-\d{2} \d{2}:\d{2} · Priya Okonkwo-Hale/);
   });
 
   it('groups the course history by term, newest first', async () => {

@@ -31,6 +31,10 @@ describe('why panel', { timeout: 60_000 }, () => {
       name: 'Why these estimates for CMP 3110?',
     });
     const grade = await within(panel).findByRole('region', { name: /^Grade/ });
+    // Words apart in the accessible name, not "Gradeestimate".
+    expect(within(panel).getByRole('heading', { name: /^Grade estimate \d\.\d\d$/ })).toBe(
+      within(grade).getByRole('heading'),
+    );
     expect(grade).toHaveTextContent(/28 past students whose course histories resemble/);
     expect(grade).toHaveTextContent('Kin count28');
     expect(grade).toHaveTextContent('likely B- to A-: four in five past estimates');
@@ -87,6 +91,10 @@ describe('why panel', { timeout: 60_000 }, () => {
       name: 'Why these estimates for ART 2210?',
     });
     const grade = await within(panel).findByRole('region', { name: /^Grade/ });
+    // Words apart in the accessible name, not "Gradeestimate".
+    expect(within(panel).getByRole('heading', { name: /^Grade estimate \d\.\d\d$/ })).toBe(
+      within(grade).getByRole('heading'),
+    );
     expect(grade).toHaveTextContent(reason);
     expect(grade).toHaveTextContent(/Only 3 similar past students have a grade in this course/);
     expect(within(panel).queryByRole('figure')).toBeNull();

@@ -38,15 +38,8 @@ export function statusLabel(status: string): string {
   return (STATUS_LABELS as Record<string, string>)[status] ?? status;
 }
 
-/** Dates and times as `YYYY-MM-DD HH:MM` in the advisor's own clock: sortable and unambiguous. */
-export function dateTime(value: string): string {
-  const date = new Date(value);
-  if (Number.isNaN(date.getTime())) return value;
-  const pad = (n: number) => String(n).padStart(2, '0');
-  return `${date.getFullYear()}-${pad(date.getMonth() + 1)}-${pad(date.getDate())} ${pad(
-    date.getHours(),
-  )}:${pad(date.getMinutes())}`;
-}
+/** One date form for every screen. */
+export { dateTime } from '../../lib/format';
 
 export function plural(count: number, one: string, many = `${one}s`): string {
   return `${count} ${count === 1 ? one : many}`;

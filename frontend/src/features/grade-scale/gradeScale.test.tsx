@@ -75,22 +75,30 @@ describe('the grade-scale form', { timeout: 40_000 }, () => {
     expect(form.getByLabelText('W passes')).not.toBeChecked();
   });
 
-  it('keeps letters best first, each once, and sends nothing until they are', async () => {
+  it('keeps each letter once on the scale and sends nothing until it is', async () => {
     api = scaleApi(() => ({ status: 200, data: { ...SCALE, recordsUpdated: 0 } }));
     const { user, form } = await openPage();
 
-    await user.clear(form.getByLabelText('Grade points of C'));
-    await user.type(form.getByLabelText('Grade points of C'), '3.5');
     await user.clear(form.getByLabelText('Mark, row 1'));
     await user.type(form.getByLabelText('Mark, row 1'), 'b');
     await user.click(form.getByRole('button', { name: 'Save grade scale' }));
 
-    expect(
-      await form.findByText('Letters go best first: no more points than B (3.0).'),
-    ).toBeInTheDocument();
-    expect(form.getAllByText('B appears more than once on the scale.')).toHaveLength(2);
+    expect(await form.findAllByText('B appears more than once on the scale.')).toHaveLength(2);
     expect(screen.queryByRole('dialog')).toBeNull();
     expect(puts()).toEqual([]);
+  });
+
+  it('hides the remove columns’ headings from sight only, one pixel wide', async () => {
+    api = scaleApi();
+    const { form } = await openPage();
+    const headings = form.getAllByRole('columnheader', { name: 'Remove' });
+    expect(headings).toHaveLength(2);
+    for (const heading of headings) {
+      const text = heading.firstElementChild as HTMLElement;
+      // In MUI's sx a bare 1 is 100 %: the hidden text would be as wide as the page.
+      expect(getComputedStyle(text).width).toBe('1px');
+      expect(getComputedStyle(text).position).toBe('absolute');
+    }
   });
 
   it('rejects points that are not a number and an empty letter', async () => {
@@ -119,7 +127,7 @@ describe('the grade-scale form', { timeout: 40_000 }, () => {
 
     await user.click(form.getByRole('button', { name: 'Add a letter' }));
     await user.type(form.getByLabelText('Letter, row 6'), 'a+');
-    await user.type(form.getByLabelText('Grade points of A+'), '0');
+    await user.type(form.getByLabelText('Grade points of A+'), '4.3');
     await user.selectOptions(form.getByLabelText('Lowest passing letter'), 'C');
     await user.click(form.getByRole('button', { name: 'Remove mark W' }));
     await user.click(form.getByRole('button', { name: 'Save grade scale' }));
@@ -138,13 +146,14 @@ describe('the grade-scale form', { timeout: 40_000 }, () => {
     ).toBeInTheDocument();
     await waitFor(() => expect(screen.queryByRole('dialog')).toBeNull());
     expect(body).toEqual({
+      // Added at the bottom, sent at the top: the scale goes out best first.
       letters: [
+        { letter: 'A+', points: 4.3 },
         { letter: 'A', points: 4 },
         { letter: 'B', points: 3 },
         { letter: 'C', points: 2 },
         { letter: 'D', points: 1 },
         { letter: 'F', points: 0 },
-        { letter: 'A+', points: 0 },
       ],
       marks: [{ letter: 'P', passing: true }],
       passingThreshold: 'C',

@@ -108,16 +108,8 @@ export function rows(count: number, noun = 'row'): string {
   return `${formatCount(count)} ${count === 1 ? noun : `${noun}s`}`;
 }
 
-/** Local date and time as `YYYY-MM-DD HH:MM`: unambiguous, and it sorts as it reads. */
-export function dateTime(value: string | null): string {
-  if (!value) return '—';
-  const date = new Date(value);
-  if (Number.isNaN(date.getTime())) return value;
-  const pad = (n: number) => String(n).padStart(2, '0');
-  return `${date.getFullYear()}-${pad(date.getMonth() + 1)}-${pad(date.getDate())} ${pad(
-    date.getHours(),
-  )}:${pad(date.getMinutes())}`;
-}
+/** One date form for every screen. */
+export { dateTime } from '../../lib/format';
 
 /** Milliseconds as "45 ms", "12.0 s" or "3 min 05 s". */
 export function duration(ms: number | null): string {

@@ -7,12 +7,5 @@ export const percent = (value: number | null) =>
 
 export const count = (value: number) => value.toLocaleString('en-GB');
 
-export function formatWhen(iso: string): string {
-  return new Date(iso).toLocaleString('en-GB', {
-    year: 'numeric',
-    month: 'short',
-    day: 'numeric',
-    hour: '2-digit',
-    minute: '2-digit',
-  });
-}
+/** One date form for every screen: `YYYY-MM-DD HH:MM`. */
+export { dateTime as formatWhen } from '../../lib/format';

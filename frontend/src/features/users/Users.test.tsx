@@ -1,7 +1,12 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
-import type { CreateUserRequest, CreateUserResponse, UserAccount } from '@kinpath/contracts';
+import type {
+  CreateUserRequest,
+  CreateUserResponse,
+  DepartmentEntry,
+  UserAccount,
+} from '@kinpath/contracts';
 import { installFakeApi } from '../../test/fake-api';
 import { renderApp, signInAs } from '../../test/render';
 
@@ -44,10 +49,16 @@ const ACCOUNTS: UserAccount[] = [
   },
 ];
 
+const DEPARTMENTS: DepartmentEntry[] = [
+  { code: 'BIO', name: null, courses: 12, added: false, heads: 0 },
+  { code: 'CMP', name: null, courses: 14, added: false, heads: 1 },
+];
+
 function fakeUsersApi(accounts: UserAccount[]) {
   const store = [...accounts];
   return installFakeApi({
     'GET /users': () => ({ status: 200, data: [...store] }),
+    'GET /departments': () => ({ status: 200, data: DEPARTMENTS }),
     'POST /users': ({ body }) => {
       const request = body as CreateUserRequest;
       if (store.some((u) => u.email === request.email)) {
@@ -153,9 +164,7 @@ describe('users page', { timeout: 20_000 }, () => {
     await user.click(form.getByRole('button', { name: 'Create account' }));
 
     expect(await form.findByText('Use at least 12 characters.')).toBeInTheDocument();
-    expect(
-      form.getByText('Enter the department code a head is responsible for.'),
-    ).toBeInTheDocument();
+    expect(form.getByText('Choose the department a head is responsible for.')).toBeInTheDocument();
     expect(api.requests.filter((r) => r.method === 'POST')).toHaveLength(0);
   });
 
@@ -170,7 +179,16 @@ describe('users page', { timeout: 20_000 }, () => {
     await user.type(form.getByLabelText('Name'), 'Mara Lindqvist');
     await user.type(form.getByLabelText('E-mail'), 'mara@halden.example');
     await user.selectOptions(form.getByLabelText('Role'), 'department_head');
-    await user.type(form.getByLabelText('Department code'), 'bio');
+    const department = form.getByLabelText('Department');
+    // A list, not free text: only the catalogue's codes can be chosen.
+    await waitFor(() =>
+      expect(
+        within(department)
+          .getAllByRole('option')
+          .map((o) => o.textContent),
+      ).toEqual(['Choose…', 'BIO', 'CMP']),
+    );
+    await user.selectOptions(department, 'BIO');
     await user.type(form.getByLabelText('Password'), 'a-long-enough-secret');
     await user.click(form.getByRole('button', { name: 'Create account' }));
 
@@ -267,5 +285,31 @@ describe('users page', { timeout: 20_000 }, () => {
         expect.objectContaining({ url: '/users/2', body: { active: false } }),
       ]),
     );
+  });
+});
+
+describe('departments on the users page', { timeout: 30_000 }, () => {
+  it('checks a new department code before sending it', async () => {
+    api = installFakeApi({
+      'GET /users': () => ({ status: 200, data: ACCOUNTS }),
+      'GET /departments': () => ({ status: 200, data: DEPARTMENTS }),
+      'POST /departments': () => ({
+        status: 400,
+        data: {
+          statusCode: 400,
+          message: 'Department must be a short upper-case code such as CMP.',
+          error: 'Bad Request',
+        },
+      }),
+    });
+    signInAs('admin');
+    renderApp('/admin/users');
+    const section = within(await screen.findByRole('region', { name: 'Departments' }));
+    expect(await section.findByRole('cell', { name: 'CMP' })).toBeInTheDocument();
+    const user = userEvent.setup();
+    await user.type(section.getByLabelText('New department code'), 'x');
+    await user.click(section.getByRole('button', { name: 'Add department' }));
+    expect(await section.findByText('Use 2 to 6 letters, such as MUS.')).toBeInTheDocument();
+    expect(api.requests.filter((r) => r.method === 'POST')).toHaveLength(0);
   });
 });

@@ -6,10 +6,12 @@ import Button from '@mui/material/Button';
 import Link from '@mui/material/Link';
 import Stack from '@mui/material/Stack';
 import TextField from '@mui/material/TextField';
-import { useMutation } from '@tanstack/react-query';
+import Typography from '@mui/material/Typography';
+import { useMutation, useQuery } from '@tanstack/react-query';
 import {
   PASSWORD_MIN_LENGTH,
   type AcceptInvitationRequest,
+  type LinkCheckResponse,
   type PasswordSetResponse,
 } from '@kinpath/contracts';
 import { apiClient, apiMessage, httpStatus } from '../../../lib/api-client';
@@ -26,13 +28,17 @@ const MODES = {
     title: 'Set up your account',
     lead: 'Choose the password you will sign in with.',
     url: '/auth/invitations/accept',
+    checkUrl: '/auth/invitations/check',
     submit: 'Set password',
+    again: 'Ask the person who invited you to send a new invitation.',
   },
   reset: {
     title: 'Choose a new password',
     lead: 'Signing in with the new password ends your other sessions.',
     url: '/auth/password-reset/confirm',
+    checkUrl: '/auth/password-reset/check',
     submit: 'Save new password',
+    again: 'Ask for a new link from the sign-in page.',
   },
 } as const;
 
@@ -50,6 +56,13 @@ export function SetPasswordPage({ mode }: { mode: keyof typeof MODES }) {
   const save = useMutation({
     mutationFn: async (request: AcceptInvitationRequest) =>
       (await apiClient.post<PasswordSetResponse>(texts.url, request)).data,
+  });
+  // The link is checked on arrival, so a spent or broken one says so before a password is typed.
+  const link = useQuery({
+    queryKey: ['account-link', mode, token],
+    queryFn: async () => (await apiClient.post<LinkCheckResponse>(texts.checkUrl, { token })).data,
+    retry: false,
+    staleTime: Infinity,
   });
   const {
     register,
@@ -81,6 +94,37 @@ export function SetPasswordPage({ mode }: { mode: keyof typeof MODES }) {
     );
   }
 
+  if (link.isPending) {
+    return (
+      <PublicFrame title={texts.title} lead={texts.lead}>
+        <Typography role="status">Checking the link…</Typography>
+      </PublicFrame>
+    );
+  }
+
+  if (link.isError) {
+    const refused = httpStatus(link.error) === 400;
+    return (
+      <PublicFrame title={texts.title} lead={texts.lead}>
+        <Stack spacing={2}>
+          <Alert severity="error" role="alert">
+            {refused
+              ? `${apiMessage(link.error) ?? 'This link cannot be used.'} ${texts.again}`
+              : 'The link could not be checked. Reload the page to try again.'}
+          </Alert>
+          {mode === 'reset' ? (
+            <Button component={RouterLink} to="/forgot-password" variant="contained">
+              Ask for a new link
+            </Button>
+          ) : null}
+          <Link component={RouterLink} to="/sign-in">
+            Back to sign-in
+          </Link>
+        </Stack>
+      </PublicFrame>
+    );
+  }
+
   return (
     <PublicFrame title={texts.title} lead={texts.lead}>
       <form onSubmit={onSubmit} noValidate>
@@ -90,6 +134,9 @@ export function SetPasswordPage({ mode }: { mode: keyof typeof MODES }) {
               {failureMessage(save.error)}
             </Alert>
           ) : null}
+          <Typography>
+            For <strong>{link.data.email}</strong>
+          </Typography>
           <TextField
             label="New password"
             type="password"

@@ -7,6 +7,7 @@ import {
   type ElectivesResponse,
   type HistoryEntry,
   type RecentStudent,
+  type SentSummary,
   type Shortlist,
   type StudentHeader,
   type StudentLookupRequest,
@@ -30,6 +31,7 @@ export const advisingKeys = {
     ['students', ref, 'explanation', courseCode] as const,
   notes: (ref: string) => ['students', ref, 'notes'] as const,
   shortlist: (ref: string) => ['students', ref, 'shortlist'] as const,
+  summaries: (ref: string) => ['students', ref, 'summaries'] as const,
 };
 
 /** The student number travels only in this POST body: never in a URL, a query key or history. */
@@ -108,8 +110,38 @@ export function useAddNote(ref: string) {
   });
 }
 
-export function useShortlist(ref: string) {
+/** A note's author changes its text; the server refuses anyone else. */
+export function useEditNote(ref: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: async ({ id, text }: { id: string; text: string }) =>
+      (await apiClient.patch<AdvisingNote>(`${studentPath(ref)}/notes/${id}`, { text })).data,
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: advisingKeys.notes(ref) }),
+  });
+}
+
+export function useDeleteNote(ref: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: async (id: string) => {
+      await apiClient.delete(`${studentPath(ref)}/notes/${id}`);
+    },
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: advisingKeys.notes(ref) }),
+  });
+}
+
+/** Summaries e-mailed to the student, newest first. */
+export function useSentSummaries(ref: string) {
   return useQuery({
+    queryKey: advisingKeys.summaries(ref),
+    queryFn: async () => (await apiClient.get<SentSummary[]>(`${studentPath(ref)}/summaries`)).data,
+  });
+}
+
+/** Advisors' only: other roles (registrar staff) neither fetch nor see a shortlist. */
+export function useShortlist(ref: string, enabled = true) {
+  return useQuery({
+    enabled,
     queryKey: advisingKeys.shortlist(ref),
     queryFn: async () => (await apiClient.get<Shortlist>(`${studentPath(ref)}/shortlist`)).data,
   });
@@ -143,9 +175,11 @@ export function useUpdateShortlist(ref: string) {
 }
 
 export function useSendSummary(ref: string) {
+  const queryClient = useQueryClient();
   return useMutation({
     mutationFn: async (request: SummaryRequest) =>
       (await apiClient.post<SummaryResponse>(`${studentPath(ref)}/summary`, request)).data,
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: advisingKeys.summaries(ref) }),
   });
 }
 

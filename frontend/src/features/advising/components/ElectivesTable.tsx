@@ -4,6 +4,7 @@ import {
   getCoreRowModel,
   getSortedRowModel,
   useReactTable,
+  type CellContext,
   type SortingState,
 } from '@tanstack/react-table';
 import Box from '@mui/material/Box';
@@ -77,11 +78,31 @@ interface ElectivesTableProps {
   term: string;
   labelledBy: string;
   shortlisted: ReadonlySet<string>;
-  onShortlistChange: (courseCode: string, shortlisted: boolean) => void;
+  /** Absent for roles that keep no shortlist: no shortlist column then. */
+  onShortlistChange?: (courseCode: string, shortlisted: boolean) => void;
   onWhy: (elective: ElectiveEstimate) => void;
 }
 
 const column = createColumnHelper<ElectiveEstimate>();
+
+/**
+ * The shortlist box. One component for the table's whole life: a cell function made anew when
+ * the shortlist changes would be a new component type, and React would replace the box the
+ * advisor just ticked, dropping keyboard focus to the page.
+ */
+function ShortlistCell({ row, table }: CellContext<ElectiveEstimate, unknown>) {
+  const e = row.original;
+  const meta = table.options.meta;
+  return (
+    <Checkbox
+      size="small"
+      checked={meta?.shortlisted?.has(e.courseCode) ?? false}
+      onChange={(event) => meta?.onShortlistChange?.(e.courseCode, event.target.checked)}
+      slotProps={{ input: { 'aria-label': `Shortlist ${e.courseCode} ${e.title}` } }}
+      sx={{ p: 0.5 }}
+    />
+  );
+}
 
 export function ElectivesTable({
   electives,
@@ -106,18 +127,7 @@ export function ElectivesTable({
         id: 'shortlist',
         header: 'Shortlist',
         sortDescFirst: true,
-        cell: ({ row }) => {
-          const e = row.original;
-          return (
-            <Checkbox
-              size="small"
-              checked={shortlisted.has(e.courseCode)}
-              onChange={(event) => onShortlistChange(e.courseCode, event.target.checked)}
-              slotProps={{ input: { 'aria-label': `Shortlist ${e.courseCode} ${e.title}` } }}
-              sx={{ p: 0.5 }}
-            />
-          );
-        },
+        cell: ShortlistCell,
       }),
       column.accessor('courseCode', {
         header: 'Course',
@@ -219,6 +229,7 @@ export function ElectivesTable({
             size="small"
             variant="outlined"
             onClick={() => onWhy(row.original)}
+            sx={{ minWidth: 0, px: 1 }}
             aria-label={`Why? ${row.original.courseCode} ${row.original.title}`}
             aria-haspopup="dialog"
           >
@@ -227,13 +238,14 @@ export function ElectivesTable({
         ),
       }),
     ],
-    [shortlisted, onShortlistChange, onWhy],
+    [shortlisted, onWhy],
   );
 
   const table = useReactTable({
     data: rows,
+    meta: { shortlisted, onShortlistChange },
     columns,
-    state: { sorting },
+    state: { sorting, columnVisibility: { shortlist: onShortlistChange !== undefined } },
     onSortingChange: setSorting,
     // A header click flips the order; there is always one, so rows never fall back to arrival order.
     enableSortingRemoval: false,
@@ -332,7 +344,8 @@ export function ElectivesTable({
         table={table}
         labelledBy={labelledBy}
         sx={{
-          '& td, & th': { px: 1 },
+          // Tight cells: every column, "Why?" included, fits a 1366 px window without scrolling.
+          '& td, & th': { px: 0.75 },
           // Two-line headers keep the numeric columns narrow enough for the row's "Why?".
           '& thead th': { whiteSpace: 'normal', verticalAlign: 'bottom', lineHeight: 1.25 },
         }}

@@ -7,30 +7,11 @@ import type {
   EstimateConfidence,
   LikelyRange,
 } from '@kinpath/contracts';
+import { satisfactionText } from '../../../lib/format';
 import { BASIS_DESCRIPTIONS, BASIS_LABELS, CONFIDENCE_LABELS, fixed } from '../format';
 
-/** Text for screen readers only, e.g. which signal a "Kin" column counts for. */
-export function VisuallyHidden({ children }: { children: ReactNode }) {
-  return (
-    <Box
-      component="span"
-      sx={{
-        position: 'absolute',
-        // Strings: in `sx`, a bare 1 would mean 100%.
-        width: '1px',
-        height: '1px',
-        p: 0,
-        m: '-1px',
-        overflow: 'hidden',
-        clip: 'rect(0 0 0 0)',
-        whiteSpace: 'nowrap',
-        border: 0,
-      }}
-    >
-      {children}
-    </Box>
-  );
-}
+/** Kept here too, for the screens that import it from the estimate cells. */
+export { VisuallyHidden } from '../../../components/VisuallyHidden';
 
 /** Baseline values are set in italics and say "baseline": never shown as if kin gave them. */
 function Estimate({
@@ -104,9 +85,10 @@ export function PredictedGrade({ elective }: { elective: ElectiveEstimate }) {
 
 export function PredictedSatisfaction({ elective }: { elective: ElectiveEstimate }) {
   const basis = elective.predictedSatisfaction === null ? 'none' : elective.bases.satisfaction;
+  const value = elective.predictedSatisfaction;
   return (
     <Estimate basis={basis} note={<Likely range={elective.likelyRange.satisfaction} />}>
-      {fixed(elective.predictedSatisfaction, 2)}
+      {value === null ? null : satisfactionText(value)}
     </Estimate>
   );
 }

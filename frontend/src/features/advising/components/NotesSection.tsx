@@ -9,7 +9,10 @@ import Typography from '@mui/material/Typography';
 import { NOTE_MAX_LENGTH } from '@kinpath/contracts';
 import { apiMessage, httpStatus } from '../../../lib/api-client';
 import { fieldProps } from '../../../lib/form';
-import { useAddNote, useNotes } from '../api/students';
+import { ConfirmDialog } from '../../../components/ConfirmDialog';
+import { useAddNote, useDeleteNote, useEditNote, useNotes } from '../api/students';
+import { useAuth } from '../../auth/AuthProvider';
+import type { AdvisingNote } from '@kinpath/contracts';
 import { dateTime } from '../format';
 
 interface NoteFields {
@@ -28,6 +31,7 @@ export function NotesSection({ studentRef }: { studentRef: string }) {
   const notes = useNotes(studentRef);
   const addNote = useAddNote(studentRef);
   const [saved, setSaved] = useState(false);
+  const me = useAuth().user?.email;
   const {
     register,
     handleSubmit,
@@ -112,13 +116,119 @@ export function NotesSection({ studentRef }: { studentRef: string }) {
                 >
                   <time dateTime={note.createdAt}>{dateTime(note.createdAt)}</time> ·{' '}
                   {note.authorName}
+                  {note.editedAt ? ` · edited ${dateTime(note.editedAt)}` : ''}
                 </Typography>
-                <Typography sx={{ whiteSpace: 'pre-wrap' }}>{note.text}</Typography>
+                {note.authorEmail === me ? (
+                  <OwnNote note={note} studentRef={studentRef} />
+                ) : (
+                  <Typography sx={{ whiteSpace: 'pre-wrap' }}>{note.text}</Typography>
+                )}
               </Box>
             ))}
           </Box>
         )}
       </Box>
     </Paper>
+  );
+}
+
+/** A note of the signed-in advisor's own: edit in place, or delete after a confirmation. */
+function OwnNote({ note, studentRef }: { note: AdvisingNote; studentRef: string }) {
+  const edit = useEditNote(studentRef);
+  const remove = useDeleteNote(studentRef);
+  const [editing, setEditing] = useState(false);
+  const [confirming, setConfirming] = useState(false);
+  const [text, setText] = useState(note.text);
+  const trimmed = text.trim();
+  const problem = !trimmed
+    ? 'Write the note, or delete it.'
+    : trimmed.length > NOTE_MAX_LENGTH
+      ? `Keep a note under ${NOTE_MAX_LENGTH} characters.`
+      : null;
+  const failure = edit.isError ? edit.error : remove.isError ? remove.error : null;
+
+  return (
+    <>
+      {editing ? (
+        <Box
+          component="form"
+          aria-label="Edit the note"
+          noValidate
+          onSubmit={async (event) => {
+            event.preventDefault();
+            if (problem) return;
+            try {
+              await edit.mutateAsync({ id: note.id, text: trimmed });
+              setEditing(false);
+            } catch {
+              // Shown below.
+            }
+          }}
+        >
+          <TextField
+            label="Note"
+            multiline
+            minRows={3}
+            fullWidth
+            value={text}
+            autoFocus
+            onChange={(event) => setText(event.target.value)}
+            error={Boolean(problem)}
+            helperText={problem}
+            slotProps={{ formHelperText: problem ? { role: 'alert' } : undefined }}
+          />
+          <Box sx={{ display: 'flex', gap: 1, mt: 1 }}>
+            <Button type="submit" variant="outlined" size="small" loading={edit.isPending}>
+              Save note
+            </Button>
+            <Button
+              size="small"
+              onClick={() => {
+                setText(note.text);
+                setEditing(false);
+              }}
+            >
+              Cancel
+            </Button>
+          </Box>
+        </Box>
+      ) : (
+        <>
+          <Typography sx={{ whiteSpace: 'pre-wrap' }}>{note.text}</Typography>
+          <Box className="kp-no-print" sx={{ display: 'flex', gap: 1, mt: 0.5 }}>
+            <Button size="small" onClick={() => setEditing(true)}>
+              Edit
+            </Button>
+            <Button size="small" color="error" onClick={() => setConfirming(true)}>
+              Delete
+            </Button>
+          </Box>
+        </>
+      )}
+      {failure ? (
+        <Alert severity="error" role="alert" sx={{ mt: 1 }}>
+          {apiMessage(failure) ?? 'The note could not be changed. Try again in a moment.'}
+        </Alert>
+      ) : null}
+      <ConfirmDialog
+        open={confirming}
+        title="Delete this note?"
+        confirmLabel="Delete note"
+        onConfirm={async () => {
+          try {
+            await remove.mutateAsync(note.id);
+            setConfirming(false);
+          } catch {
+            setConfirming(false);
+          }
+        }}
+        onCancel={() => setConfirming(false)}
+        busy={remove.isPending}
+        tone="error"
+      >
+        The note goes for every advisor of this student. The audit trail keeps that it was deleted,
+        not its words.
+      </ConfirmDialog>
+    </>
   );
 }

@@ -1,4 +1,4 @@
-import { useId, useState } from 'react';
+import { useEffect, useId, useRef, useState } from 'react';
 import Alert from '@mui/material/Alert';
 import Box from '@mui/material/Box';
 import Button from '@mui/material/Button';
@@ -31,6 +31,8 @@ interface ShortlistSectionProps {
   shortlist: Shortlist | undefined;
   loadError: boolean;
   saveError: boolean;
+  /** The electives request failed: rows have no estimates to show, and no summary can go out. */
+  electivesError: boolean;
   electives: ReadonlyMap<string, ElectiveEstimate>;
   onRemove: (courseCode: string) => void;
 }
@@ -41,6 +43,7 @@ export function ShortlistSection({
   shortlist,
   loadError,
   saveError,
+  electivesError,
   electives,
   onRemove,
 }: ShortlistSectionProps) {
@@ -48,6 +51,19 @@ export function ShortlistSection({
   const [dialogOpen, setDialogOpen] = useState(false);
   const [sent, setSent] = useState<SummaryResponse | null>(null);
   const codes = shortlist?.courseCodes ?? [];
+  const sectionRef = useRef<HTMLElement>(null);
+  // Where focus goes once a removed row has gone: the next row's "Remove", else the heading.
+  const focusAfterRemoval = useRef<number | null>(null);
+  const count = codes.length;
+  useEffect(() => {
+    const index = focusAfterRemoval.current;
+    const section = sectionRef.current;
+    if (index === null || !section) return;
+    focusAfterRemoval.current = null;
+    const buttons = section.querySelectorAll<HTMLElement>('[data-remove]');
+    const next = buttons[Math.min(index, buttons.length - 1)];
+    (next ?? section.querySelector<HTMLElement>('h2'))?.focus();
+  }, [count]);
   const titles = new Map(shortlist?.items.map((i) => [i.courseCode, i.title]) ?? []);
   const courses = codes.map((code) => ({
     courseCode: code,
@@ -55,9 +71,15 @@ export function ShortlistSection({
   }));
 
   return (
-    <Paper component="section" aria-labelledby={headingId} variant="outlined" sx={{ p: 2.5 }}>
+    <Paper
+      component="section"
+      ref={sectionRef}
+      aria-labelledby={headingId}
+      variant="outlined"
+      sx={{ p: 2.5 }}
+    >
       <Box sx={{ display: 'flex', alignItems: 'center', gap: 2, flexWrap: 'wrap', mb: 1 }}>
-        <Typography id={headingId} variant="h2" sx={{ mr: 'auto' }}>
+        <Typography id={headingId} variant="h2" tabIndex={-1} sx={{ mr: 'auto' }}>
           Shortlist{term ? ` for ${term}` : ''}
         </Typography>
         <Button
@@ -68,7 +90,7 @@ export function ShortlistSection({
             setSent(null);
             setDialogOpen(true);
           }}
-          disabled={codes.length === 0}
+          disabled={codes.length === 0 || electivesError}
           aria-haspopup="dialog"
         >
           Send summary
@@ -79,6 +101,12 @@ export function ShortlistSection({
           <Alert severity="success" sx={{ mb: 1.5 }} onClose={() => setSent(null)}>
             Summary sent to {sent.to} at {dateTime(sent.sentAt)} ({sent.courseCodes.length}{' '}
             {sent.courseCodes.length === 1 ? 'elective' : 'electives'}).
+          </Alert>
+        ) : null}
+        {electivesError && codes.length > 0 ? (
+          <Alert severity="error" sx={{ mb: 1.5 }}>
+            The estimates could not be loaded, so the shortlist shows none and no summary can be
+            sent. Reload the page to try again.
           </Alert>
         ) : null}
         {saveError ? (
@@ -130,7 +158,7 @@ export function ShortlistSection({
                 </TableRow>
               </TableHead>
               <TableBody>
-                {courses.map(({ courseCode, title }) => {
+                {courses.map(({ courseCode, title }, index) => {
                   const e = electives.get(courseCode);
                   return (
                     <TableRow key={courseCode}>
@@ -164,14 +192,19 @@ export function ShortlistSection({
                         </>
                       ) : (
                         <TableCell colSpan={7} sx={{ color: 'text.secondary' }}>
-                          Not among the electives of {term ?? 'this term'}: no estimate for this
-                          term.
+                          {electivesError
+                            ? 'Estimates not loaded.'
+                            : `Not among the electives of ${term ?? 'this term'}: no estimate for this term.`}
                         </TableCell>
                       )}
                       <TableCell className="kp-no-print">
                         <Button
                           size="small"
-                          onClick={() => onRemove(courseCode)}
+                          data-remove
+                          onClick={() => {
+                            focusAfterRemoval.current = index;
+                            onRemove(courseCode);
+                          }}
                           aria-label={`Remove ${courseCode} from the shortlist`}
                         >
                           Remove

@@ -118,8 +118,10 @@ function SignalSection({
     <Box component="section" aria-labelledby={headingId} sx={{ mt: 2.5 }}>
       <Typography id={headingId} variant="h3" sx={{ mb: 0.75 }}>
         {meta.name}
+        {/* A real space: the margin alone would make "Gradeestimate" of the heading's name. */}
+        {s.value !== null ? ' ' : null}
         {s.value !== null ? (
-          <Box component="span" className="kp-figures" sx={{ fontWeight: 400, ml: 1 }}>
+          <Box component="span" className="kp-figures" sx={{ fontWeight: 400, ml: 0.5 }}>
             estimate {fixed(s.value, meta.decimals)}
           </Box>
         ) : null}

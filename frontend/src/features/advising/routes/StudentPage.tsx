@@ -8,9 +8,10 @@ import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
 import ArrowBack from '@mui/icons-material/ArrowBack';
 import Print from '@mui/icons-material/Print';
-import type { ElectiveEstimate } from '@kinpath/contracts';
+import type { ElectiveEstimate, StudentStatus } from '@kinpath/contracts';
 import { EstimateCautions } from '../../../components/EstimateCautions';
 import { PageHeader } from '../../../components/PageHeader';
+import { useAuth } from '../../auth/AuthProvider';
 import { httpStatus } from '../../../lib/api-client';
 import {
   useElectives,
@@ -24,10 +25,11 @@ import { ElectivesTable } from '../components/ElectivesTable';
 import { HistoryTable } from '../components/HistoryTable';
 import { NotesSection } from '../components/NotesSection';
 import { PrintStyles } from '../components/PrintStyles';
+import { SentSummaries } from '../components/SentSummaries';
 import { ShortlistSection } from '../components/ShortlistSection';
 import { StudentSummary } from '../components/StudentSummary';
 import { WhyDrawer } from '../components/WhyDrawer';
-import { dateTime } from '../format';
+import { dateTime, statusLabel } from '../format';
 
 function TermPicker({ value, onChange }: { value: string; onChange: (term: string) => void }) {
   const terms = useOfferedTerms();
@@ -61,12 +63,16 @@ function ElectivesSection({
   shortlisted,
   onShortlistChange,
   onWhy,
+  status,
 }: {
   studentRef: string;
+  /** The student's standing; anything but active is said above the list. */
+  status: StudentStatus | undefined;
   term: string | null;
   onTermChange: (term: string) => void;
   shortlisted: ReadonlySet<string>;
-  onShortlistChange: (courseCode: string, shortlisted: boolean) => void;
+  /** Absent for roles that keep no shortlist: the table has no shortlist column then. */
+  onShortlistChange?: (courseCode: string, shortlisted: boolean) => void;
   onWhy: (elective: ElectiveEstimate) => void;
 }) {
   const headingId = useId();
@@ -80,6 +86,12 @@ function ElectivesSection({
         </Typography>
         {data ? <TermPicker value={data.term} onChange={onTermChange} /> : null}
       </Box>
+      {status && status !== 'active' ? (
+        <Alert severity="warning" sx={{ mb: 1.5, maxWidth: '110ch' }}>
+          <strong>{statusLabel(status)}:</strong> {STANDING_NOTES[status]} The electives below are
+          worked out as for an enrolled student; confirm the student’s plans before using them.
+        </Alert>
+      ) : null}
       {data ? (
         <Box
           sx={{
@@ -161,6 +173,13 @@ function HistorySection({ studentRef }: { studentRef: string }) {
   );
 }
 
+/** What each standing other than active means for next term's electives. */
+const STANDING_NOTES: Record<Exclude<StudentStatus, 'active'>, string> = {
+  withdrawn: 'this student has left the university and is not registered for next term.',
+  graduated: 'this student has completed their program.',
+  on_leave: 'this student is on leave and may not return next term.',
+};
+
 function studentTitle(program: string | null | undefined, entryTerm: string | null | undefined) {
   if (!program) return 'Student';
   return entryTerm ? `${program} student, entered ${entryTerm}` : `${program} student`;
@@ -172,7 +191,9 @@ export function StudentPage() {
   const student = useStudent(ref);
   const [term, setTerm] = useState<string | null>(null);
   const [why, setWhy] = useState<ElectiveEstimate | null>(null);
-  const shortlist = useShortlist(ref);
+  // Shortlists, notes and summaries are advisors' work; registrar staff read the rest.
+  const advises = useAuth().user?.role === 'advisor';
+  const shortlist = useShortlist(ref, advises);
   const updateShortlist = useUpdateShortlist(ref);
   const electives = useElectives(ref, term);
   const byCode = useMemo(
@@ -249,10 +270,11 @@ export function StudentPage() {
         </Paper>
         <ElectivesSection
           studentRef={ref}
+          status={student.data?.status}
           term={term}
           onTermChange={setTerm}
           shortlisted={shortlisted}
-          onShortlistChange={changeShortlist}
+          onShortlistChange={advises ? changeShortlist : undefined}
           onWhy={setWhy}
         />
         <Box className="kp-print-order-4">
@@ -263,22 +285,28 @@ export function StudentPage() {
           sx={{
             display: 'grid',
             gap: 3,
-            gridTemplateColumns: { xs: '1fr', xl: 'minmax(0, 3fr) minmax(320px, 2fr)' },
+            gridTemplateColumns: { xs: 'minmax(0, 1fr)', xl: 'minmax(0, 3fr) minmax(320px, 2fr)' },
             alignItems: 'start',
           }}
         >
-          <ShortlistSection
-            studentRef={ref}
-            term={shownTerm}
-            shortlist={shortlist.data}
-            loadError={shortlist.isError}
-            saveError={updateShortlist.isError}
-            electives={byCode}
-            onRemove={(courseCode) => changeShortlist(courseCode, false)}
-          />
-          <Box className="kp-no-print">
-            <NotesSection studentRef={ref} />
-          </Box>
+          {advises ? (
+            <ShortlistSection
+              studentRef={ref}
+              term={shownTerm}
+              shortlist={shortlist.data}
+              loadError={shortlist.isError}
+              saveError={updateShortlist.isError}
+              electivesError={electives.isError}
+              electives={byCode}
+              onRemove={(courseCode) => changeShortlist(courseCode, false)}
+            />
+          ) : null}
+          {advises ? (
+            <Box className="kp-no-print" sx={{ display: 'grid', gap: 3, minWidth: 0 }}>
+              <NotesSection studentRef={ref} />
+              <SentSummaries studentRef={ref} />
+            </Box>
+          ) : null}
         </Box>
         <HistorySection studentRef={ref} />
       </Box>

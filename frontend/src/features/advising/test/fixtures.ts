@@ -1,5 +1,6 @@
 import type {
   AdvisingNote,
+  SentSummary,
   ElectiveEstimate,
   ElectiveExplanation,
   ElectivesResponse,
@@ -239,11 +240,23 @@ export const EMPTY_SHORTLIST: Shortlist = {
   updatedByEmail: null,
 };
 
+export const SENT: SentSummary[] = [
+  {
+    id: 's1',
+    sentAt: '2026-02-27T10:20:00.000Z',
+    to: 'student@halden.example',
+    term: '2026-SP',
+    courseCodes: ['CMP 3110', 'ART 2210'],
+    senderName: 'Priya Okonkwo-Hale',
+  },
+];
+
 export const NOTES: AdvisingNote[] = [
   {
     id: 'n1',
     text: 'Wants a studio course next to the compilers course.',
     createdAt: '2026-02-27T10:05:00.000Z',
+    editedAt: null,
     authorName: 'Priya Okonkwo-Hale',
     authorEmail: 'advisor@halden.example',
   },
@@ -282,12 +295,26 @@ export function fakeAdvisingApi(overrides: Record<string, FakeHandler> = {}) {
       };
       return { status: 200, data: shortlist };
     },
-    [`GET ${path}/notes`]: () => ({ status: 200, data: notes }),
+    [`GET ${path}/notes`]: () => ({ status: 200, data: [...notes] }),
+    [`GET ${path}/summaries`]: () => ({ status: 200, data: SENT }),
+    [`PATCH ${path}/notes/n1`]: ({ body }) => {
+      notes[0] = {
+        ...notes[0],
+        text: (body as { text: string }).text,
+        editedAt: '2026-03-02T10:00:00.000Z',
+      };
+      return { status: 200, data: notes[0] };
+    },
+    [`DELETE ${path}/notes/n1`]: () => {
+      notes.splice(0, 1);
+      return { status: 204 };
+    },
     [`POST ${path}/notes`]: ({ body }) => {
       const note: AdvisingNote = {
         id: `n${notes.length + 1}`,
         text: (body as { text: string }).text,
         createdAt: '2026-03-02T09:30:00.000Z',
+        editedAt: null,
         authorName: 'Priya Okonkwo-Hale',
         authorEmail: 'advisor@halden.example',
       };

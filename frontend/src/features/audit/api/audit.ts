@@ -5,6 +5,7 @@ import { apiClient } from '../../../lib/api-client';
 export interface AuditFilters {
   action: string;
   actor: string;
+  target: string;
   from: string;
   to: string;
 }

@@ -8,7 +8,8 @@ import TablePagination from '@mui/material/TablePagination';
 import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
 import Download from '@mui/icons-material/Download';
-import type { AuditEntry } from '@kinpath/contracts';
+import { auditActionLabel, type AuditEntry } from '@kinpath/contracts';
+import { NoMatch } from '../../../components/NoMatch';
 import { DataTable } from '../../../components/DataTable';
 import { PageHeader } from '../../../components/PageHeader';
 import { downloadAuditCsv, useAuditTrail, type AuditFilters } from '../api/audit';
@@ -20,13 +21,21 @@ function when(iso: string): string {
   return `${iso.slice(0, 10)} ${iso.slice(11, 19)}`;
 }
 
+/** Details as words with spaces, so a long one wraps between values, not inside them. */
 function detailText(detail: Record<string, unknown>): string {
   return Object.entries(detail)
-    .map(
-      ([key, value]) =>
-        `${key}: ${typeof value === 'object' ? JSON.stringify(value) : String(value)}`,
-    )
+    .map(([key, value]) => `${key}: ${valueText(value)}`)
     .join('; ');
+}
+
+function valueText(value: unknown): string {
+  if (Array.isArray(value)) return value.map(valueText).join(', ');
+  if (value && typeof value === 'object') {
+    return `(${Object.entries(value)
+      .map(([k, v]) => `${k}: ${valueText(v)}`)
+      .join(', ')})`;
+  }
+  return String(value);
 }
 
 const columns = [
@@ -35,15 +44,27 @@ const columns = [
     cell: (info) => <span className="kp-figures">{when(info.getValue())}</span>,
   }),
   column.accessor((e) => e.actorEmail ?? 'system', { id: 'actor', header: 'Actor' }),
-  column.accessor('action', { header: 'Action' }),
-  column.accessor((e) => e.target ?? '', { id: 'target', header: 'Target' }),
+  column.accessor((e) => auditActionLabel(e.action), { id: 'action', header: 'Action' }),
+  column.accessor((e) => e.targetLabel ?? e.target ?? '', { id: 'target', header: 'Target' }),
   column.accessor((e) => detailText(e.detail), { id: 'detail', header: 'Detail' }),
 ];
 
-// Long details wrap inside their cell instead of widening the table.
-const ENTRY_CELL = { verticalAlign: 'top', wordBreak: 'break-word' } as const;
+// Short columns keep their words whole. Targets and details may hold ids with no space to
+// break at: only those two may break inside a word, and the detail keeps room for whole words.
+const ENTRY_CELL = { verticalAlign: 'top', overflowWrap: 'break-word' } as const;
+const SHORT_CELL = { ...ENTRY_CELL, whiteSpace: 'nowrap' } as const;
+const ID_CELL = { verticalAlign: 'top', overflowWrap: 'anywhere', minWidth: 120 } as const;
+const WIDE_CELL = { ...ID_CELL, minWidth: 220 } as const;
+const cellStyle = ({ column: { id } }: { column: { id: string } }) =>
+  id === 'at' || id === 'action'
+    ? SHORT_CELL
+    : id === 'detail'
+      ? WIDE_CELL
+      : id === 'target'
+        ? ID_CELL
+        : ENTRY_CELL;
 
-const NO_FILTERS: AuditFilters = { action: '', actor: '', from: '', to: '' };
+const NO_FILTERS: AuditFilters = { action: '', actor: '', target: '', from: '', to: '' };
 
 export function AuditPage() {
   const headingId = useId();
@@ -63,6 +84,12 @@ export function AuditPage() {
     enableSorting: false,
     getCoreRowModel: getCoreRowModel(),
   });
+
+  const clearFilters = () => {
+    reset(NO_FILTERS);
+    setFilters(NO_FILTERS);
+    setPage(0);
+  };
 
   const apply = handleSubmit((values) => {
     setFilters(values);
@@ -103,21 +130,31 @@ export function AuditPage() {
         aria-label="Filter the audit trail"
         onSubmit={apply}
         noValidate
-        sx={{ display: 'flex', flexWrap: 'wrap', gap: 2, alignItems: 'flex-start', mb: 2 }}
+        sx={{
+          display: 'grid',
+          gridTemplateColumns: 'repeat(auto-fill, minmax(190px, 1fr))',
+          gap: 2,
+          alignItems: 'start',
+          mb: 2,
+        }}
       >
-        <TextField label="Actor (e-mail contains)" {...register('actor')} sx={{ minWidth: 240 }} />
+        <TextField label="Actor (e-mail contains)" {...register('actor')} />
+        <TextField
+          label="Target contains"
+          helperText="E-mail, file name or code"
+          {...register('target')}
+        />
         <TextField
           select
           label="Action"
           {...register('action')}
           defaultValue=""
           slotProps={{ select: { native: true }, inputLabel: { shrink: true } }}
-          sx={{ minWidth: 220 }}
         >
           <option value="">Every action</option>
           {(trail.data?.actions ?? []).map((action) => (
             <option key={action} value={action}>
-              {action}
+              {auditActionLabel(action)}
             </option>
           ))}
         </TextField>
@@ -133,19 +170,12 @@ export function AuditPage() {
           {...register('to')}
           slotProps={{ inputLabel: { shrink: true } }}
         />
-        <Button type="submit" variant="contained" sx={{ mt: 1 }}>
-          Apply filters
-        </Button>
-        <Button
-          sx={{ mt: 1 }}
-          onClick={() => {
-            reset(NO_FILTERS);
-            setFilters(NO_FILTERS);
-            setPage(0);
-          }}
-        >
-          Clear
-        </Button>
+        <Box sx={{ display: 'flex', gap: 1, flexWrap: 'wrap', pt: 1 }}>
+          <Button type="submit" variant="contained">
+            Apply filters
+          </Button>
+          <Button onClick={clearFilters}>Clear</Button>
+        </Box>
       </Box>
       {exportError ? (
         <Alert severity="error" role="alert" sx={{ mb: 2 }}>
@@ -171,8 +201,14 @@ export function AuditPage() {
         table={table}
         labelledBy={headingId}
         dense
-        cellSx={() => ENTRY_CELL}
-        empty={trail.isPending ? undefined : 'No entry matches these filters.'}
+        cellSx={cellStyle}
+        empty={
+          trail.isPending ? undefined : filters === NO_FILTERS ? (
+            'The audit trail is empty.'
+          ) : (
+            <NoMatch message="No entry matches these filters." onClear={clearFilters} />
+          )
+        }
       />
       <TablePagination
         component="div"

@@ -14,6 +14,7 @@ import Box from '@mui/material/Box';
 import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
 import type { CourseSummary } from '@kinpath/contracts';
+import { NoMatch } from '../../../components/NoMatch';
 import { DataTable } from '../../../components/DataTable';
 import { formatCount } from '../../imports/words';
 
@@ -173,7 +174,20 @@ export function CoursesTable({
         labelledBy={labelledBy}
         scrollable
         hover
-        empty="No course matches the filters."
+        empty={
+          courses.length === 0 ? (
+            'The catalogue is empty.'
+          ) : (
+            <NoMatch
+              message="No course matches the filters."
+              onClear={() => {
+                table.setPageIndex(0);
+                setFilters([]);
+                setSearch('');
+              }}
+            />
+          )
+        }
       />
     </Box>
   );

@@ -30,6 +30,7 @@ import {
   type UpdateGradeScaleRequest,
 } from '@kinpath/contracts';
 import { ConfirmDialog } from '../../../components/ConfirmDialog';
+import { visuallyHidden } from '../../../components/VisuallyHidden';
 import { apiMessage, httpStatus } from '../../../lib/api-client';
 import { formatCount } from '../../imports/words';
 import { useSaveGradeScale } from '../api/gradeScale';
@@ -67,12 +68,12 @@ export const DEFAULT_FIELDS: ScaleFields = {
   passingThreshold: DEFAULT_PASSING_THRESHOLD,
 };
 
-function toRequest(values: ScaleFields): UpdateGradeScaleRequest {
+/** Letters go out best first by points, so a letter added at the bottom lands in its place. */
+export function toRequest(values: ScaleFields): UpdateGradeScaleRequest {
   return {
-    letters: values.letters.map((l) => ({
-      letter: l.letter.trim().toUpperCase(),
-      points: Number(l.points),
-    })),
+    letters: values.letters
+      .map((l) => ({ letter: l.letter.trim().toUpperCase(), points: Number(l.points) }))
+      .sort((a, b) => b.points - a.points),
     marks: values.marks.map((m) => ({ letter: m.letter.trim().toUpperCase(), passing: m.passing })),
     passingThreshold: values.passingThreshold,
   };
@@ -89,14 +90,10 @@ function checkLetter(value: string, all: ScaleFields, what: 'letter' | 'mark') {
   return uses > 1 ? `${letter} appears more than once on the scale.` : true;
 }
 
-function checkPoints(value: string, index: number, all: ScaleFields) {
+function checkPoints(value: string) {
   const text = value.trim();
   if (!text) return 'Enter the grade points.';
   if (!POINTS.test(text)) return 'Use a number from 0 to 999 with at most two decimals.';
-  const above = index > 0 ? all.letters[index - 1] : undefined;
-  if (above && POINTS.test(above.points.trim()) && Number(text) > Number(above.points)) {
-    return `Letters go best first: no more points than ${norm(above.letter) || 'the letter above'} (${above.points}).`;
-  }
   return true;
 }
 
@@ -117,7 +114,7 @@ interface GradeScaleFormProps {
   storedRecords: number | null;
 }
 
-/** The scale as a table form: letters with points (best first), marks, and the passing letter. */
+/** The scale as a table form: letters with points (saved best first), marks, and the passing letter. */
 export function GradeScaleForm({ scale, storedRecords }: GradeScaleFormProps) {
   const save = useSaveGradeScale();
   const lettersHeadingId = useId();
@@ -186,8 +183,9 @@ export function GradeScaleForm({ scale, storedRecords }: GradeScaleFormProps) {
             Letters
           </Typography>
           <Typography variant="body2" sx={{ color: 'text.secondary', mb: 1.5 }}>
-            Best first. The lowest and highest points bound every predicted grade; a number in the
-            scale’s range in a term data file is taken as grade points.
+            In any order: saving puts them best first, by points. The lowest and highest points
+            bound every predicted grade; a number in the scale’s range in a term data file is taken
+            as grade points.
           </Typography>
           <TableContainer component={Paper} variant="outlined" sx={{ maxWidth: 620 }}>
             <Table aria-labelledby={lettersHeadingId}>
@@ -218,7 +216,7 @@ export function GradeScaleForm({ scale, storedRecords }: GradeScaleFormProps) {
                   );
                   const pointsField = bind(
                     register(`letters.${index}.points`, {
-                      validate: (value, all) => checkPoints(value, index, all),
+                      validate: checkPoints,
                     }),
                   );
                   return (
@@ -447,12 +445,3 @@ export function confirmationText(storedRecords: number | null): string {
     'Estimates are rebuilt afterwards. A letter that stored records still use cannot be removed.'
   );
 }
-
-const visuallyHidden = {
-  position: 'absolute',
-  width: 1,
-  height: 1,
-  overflow: 'hidden',
-  clip: 'rect(0 0 0 0)',
-  whiteSpace: 'nowrap',
-} as const;

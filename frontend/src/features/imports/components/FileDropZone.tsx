@@ -1,5 +1,6 @@
 import { useId, useState, type DragEvent, type Ref } from 'react';
 import Box from '@mui/material/Box';
+import { visuallyHidden } from '../../../components/VisuallyHidden';
 import Typography from '@mui/material/Typography';
 import UploadFile from '@mui/icons-material/UploadFile';
 import { fileSize } from '../words';
@@ -87,15 +88,7 @@ export function FileDropZone({ file, onChange, inputRef, error, disabled }: File
               // Lets the same file be chosen again after it was cleared.
               event.target.value = '';
             }}
-            style={{
-              position: 'absolute',
-              width: 1,
-              height: 1,
-              overflow: 'hidden',
-              clip: 'rect(0 0 0 0)',
-              clipPath: 'inset(50%)',
-              whiteSpace: 'nowrap',
-            }}
+            style={visuallyHidden}
           />
           <Box
             component="label"

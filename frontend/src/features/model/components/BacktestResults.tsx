@@ -18,6 +18,7 @@ import ToggleButtonGroup from '@mui/material/ToggleButtonGroup';
 import Typography from '@mui/material/Typography';
 import ExpandMore from '@mui/icons-material/ExpandMore';
 import type { EvaluationDetail, EvaluationSignal } from '@kinpath/contracts';
+import { scrollRegionProps } from '../../../lib/scroll-region';
 import { VisuallyHidden } from '../../advising/components/EstimateCells';
 import { count, fixed, formatWhen, percent } from '../format';
 import { isBest, summarise } from '../results';
@@ -292,7 +293,10 @@ function DepartmentResults({
         </Typography>
       </AccordionSummary>
       <AccordionDetails>
-        <TableContainer>
+        {/* Focusable and named: with many configurations it scrolls sideways. */}
+        <TableContainer
+          {...scrollRegionProps({ label: `MAE by department, ${SIGNAL_WORDS[signal]}` })}
+        >
           <Table size="small" aria-label={`MAE by department, ${SIGNAL_WORDS[signal]}`}>
             <TableHead>
               <TableRow>

@@ -26,6 +26,26 @@ const REGISTRAR_PAGES = [
     page: PAGES.gradeScale,
     what: 'Letters, grade points, marks and the lowest passing letter.',
   },
+  {
+    page: PAGES.modelSettings,
+    what: 'How kin are found and weighed: the settings behind every estimate, with their versions.',
+  },
+  {
+    page: PAGES.backtests,
+    what: 'How accurate the estimates would have been on a held-out term, beside simple baselines.',
+  },
+  {
+    page: PAGES.outlook,
+    what: 'Expected demand for next term’s electives against the seats offered, per department.',
+  },
+  {
+    page: PAGES.audit,
+    what: 'Who did what, and when: sign-ins, student lookups, imports and settings changes.',
+  },
+  {
+    page: PAGES.advising,
+    what: 'Look a student up by number to read their history and next term’s estimates.',
+  },
 ] as const;
 
 function RegistrarPages() {
@@ -43,7 +63,7 @@ function RegistrarPages() {
           p: 0,
           display: 'grid',
           gap: 1.5,
-          gridTemplateColumns: { xs: '1fr', md: 'repeat(3, minmax(0, 1fr))' },
+          gridTemplateColumns: 'repeat(auto-fill, minmax(240px, 1fr))',
         }}
       >
         {REGISTRAR_PAGES.map(({ page, what }) => (

@@ -1,6 +1,8 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type {
+  AddDepartmentRequest,
   CreateUserRequest,
+  DepartmentEntry,
   CreateUserResponse,
   UpdateUserRequest,
   UserAccount,
@@ -50,5 +52,34 @@ export function useRevokeInvitation() {
       await apiClient.delete(`/users/${id}/invitation`);
     },
     onSuccess: () => queryClient.invalidateQueries({ queryKey: usersQueryKey }),
+  });
+}
+
+export const departmentsQueryKey = ['departments'] as const;
+
+/** The departments a head may be scoped to: the catalogue's and those admins added. */
+export function useDepartments() {
+  return useQuery({
+    queryKey: departmentsQueryKey,
+    queryFn: async () => (await apiClient.get<DepartmentEntry[]>('/departments')).data,
+  });
+}
+
+export function useAddDepartment() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: async (request: AddDepartmentRequest) =>
+      (await apiClient.post<DepartmentEntry>('/departments', request)).data,
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: departmentsQueryKey }),
+  });
+}
+
+export function useRemoveDepartment() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: async (code: string) => {
+      await apiClient.delete(`/departments/${encodeURIComponent(code)}`);
+    },
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: departmentsQueryKey }),
   });
 }

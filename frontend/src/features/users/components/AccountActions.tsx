@@ -9,16 +9,11 @@ import DialogContentText from '@mui/material/DialogContentText';
 import DialogTitle from '@mui/material/DialogTitle';
 import Stack from '@mui/material/Stack';
 import TextField from '@mui/material/TextField';
-import {
-  DEPARTMENT_CODE_PATTERN,
-  ROLE_LABELS,
-  ROLES,
-  type Role,
-  type UserAccount,
-} from '@kinpath/contracts';
+import { ROLE_LABELS, ROLES, type Role, type UserAccount } from '@kinpath/contracts';
 import { apiMessage } from '../../../lib/api-client';
 import { fieldProps } from '../../../lib/form';
 import { useResendInvitation, useRevokeInvitation, useUpdateUser } from '../api/users';
+import { DepartmentField, departmentRule, useDepartmentCodes } from './DepartmentField';
 
 interface RoleFields {
   role: Role;
@@ -37,6 +32,7 @@ function RoleDialog({ user, onClose }: { user: UserAccount; onClose: () => void 
     defaultValues: { role: user.role, department: user.department ?? '' },
   });
   const role = watch('role');
+  const codes = useDepartmentCodes();
   const roleField = fieldProps(register('role'), errors.role?.message);
 
   const onSubmit = handleSubmit(async (values) => {
@@ -44,8 +40,7 @@ function RoleDialog({ user, onClose }: { user: UserAccount; onClose: () => void 
       await update.mutateAsync({
         id: user.id,
         role: values.role,
-        department:
-          values.role === 'department_head' ? values.department.trim().toUpperCase() : null,
+        department: values.role === 'department_head' ? values.department : null,
       });
       onClose();
     } catch {
@@ -77,19 +72,12 @@ function RoleDialog({ user, onClose }: { user: UserAccount; onClose: () => void 
               ))}
             </TextField>
             {role === 'department_head' ? (
-              <TextField
-                label="Department code"
-                autoComplete="off"
-                {...fieldProps(
-                  register('department', {
-                    shouldUnregister: true,
-                    validate: (value) =>
-                      DEPARTMENT_CODE_PATTERN.test(value.trim().toUpperCase())
-                        ? true
-                        : 'Use the department’s short code in letters, such as CMP.',
-                  }),
-                  errors.department?.message,
-                )}
+              <DepartmentField
+                registration={register('department', {
+                  shouldUnregister: true,
+                  validate: departmentRule(codes),
+                })}
+                error={errors.department?.message}
               />
             ) : null}
           </Stack>

@@ -5,7 +5,6 @@ import Button from '@mui/material/Button';
 import Stack from '@mui/material/Stack';
 import TextField from '@mui/material/TextField';
 import {
-  DEPARTMENT_CODE_PATTERN,
   PASSWORD_MIN_LENGTH,
   ROLE_LABELS,
   ROLES,
@@ -15,6 +14,7 @@ import {
 import { apiMessage, httpStatus } from '../../../lib/api-client';
 import { fieldProps } from '../../../lib/form';
 import { useCreateUser } from '../api/users';
+import { DepartmentField, departmentRule, useDepartmentCodes } from './DepartmentField';
 
 interface CreateUserFields {
   displayName: string;
@@ -53,6 +53,7 @@ export function CreateUserForm() {
     formState: { errors, isSubmitting },
   } = useForm<CreateUserFields>({ defaultValues: EMPTY });
   const role = watch('role');
+  const codes = useDepartmentCodes();
   const roleField = fieldProps(register('role'), errors.role?.message);
 
   const onSubmit = handleSubmit(async (values) => {
@@ -63,9 +64,7 @@ export function CreateUserForm() {
       role: values.role,
       // Without a password the server sends an invitation e-mail instead.
       ...(values.password ? { password: values.password } : {}),
-      ...(values.role === 'department_head'
-        ? { department: values.department.trim().toUpperCase() }
-        : {}),
+      ...(values.role === 'department_head' ? { department: values.department } : {}),
     };
     try {
       const user = await createUser.mutateAsync(request);
@@ -133,23 +132,13 @@ export function CreateUserForm() {
           ))}
         </TextField>
         {role === 'department_head' ? (
-          <TextField
-            label="Department code"
-            autoComplete="off"
-            {...fieldProps(
-              register('department', {
-                // Unregistered when hidden, so other roles never send a department.
-                shouldUnregister: true,
-                validate: (value) => {
-                  const code = value.trim().toUpperCase();
-                  if (!code) return 'Enter the department code a head is responsible for.';
-                  return DEPARTMENT_CODE_PATTERN.test(code)
-                    ? true
-                    : 'Use the department’s short code in letters, such as CMP.';
-                },
-              }),
-              errors.department?.message,
-            )}
+          <DepartmentField
+            registration={register('department', {
+              // Unregistered when hidden, so other roles never send a department.
+              shouldUnregister: true,
+              validate: departmentRule(codes),
+            })}
+            error={errors.department?.message}
           />
         ) : null}
         <TextField

@@ -12,6 +12,7 @@ import Alert from '@mui/material/Alert';
 import TextField from '@mui/material/TextField';
 import Typography from '@mui/material/Typography';
 import { ROLE_LABELS, type UserAccount } from '@kinpath/contracts';
+import { NoMatch } from '../../../components/NoMatch';
 import { DataTable } from '../../../components/DataTable';
 import { AccountActions } from './AccountActions';
 
@@ -114,7 +115,13 @@ export function UsersTable({ users, captionId }: { users: UserAccount[]; caption
         table={table}
         labelledBy={captionId}
         hover
-        empty={users.length === 0 ? 'No accounts yet.' : 'No account matches the filter.'}
+        empty={
+          users.length === 0 ? (
+            'No accounts yet.'
+          ) : (
+            <NoMatch message="No account matches the filter." onClear={() => setFilter('')} />
+          )
+        }
       />
     </Box>
   );

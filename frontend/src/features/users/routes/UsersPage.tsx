@@ -2,10 +2,12 @@ import { useId } from 'react';
 import Alert from '@mui/material/Alert';
 import Box from '@mui/material/Box';
 import Paper from '@mui/material/Paper';
+import Stack from '@mui/material/Stack';
 import Typography from '@mui/material/Typography';
 import { PageHeader } from '../../../components/PageHeader';
 import { useUsers } from '../api/users';
 import { CreateUserForm } from '../components/CreateUserForm';
+import { DepartmentsSection } from '../components/DepartmentsSection';
 import { UsersTable } from '../components/UsersTable';
 
 function AccountsSection() {
@@ -63,7 +65,10 @@ export function UsersPage() {
         }}
       >
         <AccountsSection />
-        <CreateAccountSection />
+        <Stack spacing={3} sx={{ alignSelf: 'start', minWidth: 0 }}>
+          <CreateAccountSection />
+          <DepartmentsSection />
+        </Stack>
       </Box>
     </>
   );
