@@ -244,6 +244,12 @@ describe('student page', { timeout: 60_000 }, () => {
     expect(await within(notes).findByText('No notes yet.')).toBeInTheDocument();
   });
 
+  it('prints the date and the advisor above the page, on paper only', async () => {
+    await openStudent();
+    const line = screen.getByText(/^Printed \d{4}-\d{2}-\d{2} \d{2}:\d{2} by /);
+    expect(line).toHaveClass('kp-print-only');
+  });
+
   it('lists the summaries sent: date, address and courses', async () => {
     await openStudent();
     const sent = screen.getByRole('region', { name: 'Sent summaries' });

@@ -35,6 +35,8 @@ export function PrintStyles() {
             height: 'auto',
           },
           '.kp-print-only': { display: 'block !important' },
+          // Sorting means nothing on paper: the header text stays, the arrow goes.
+          '.MuiTableSortLabel-icon': { display: 'none !important' },
         },
         '.kp-print-only': { display: 'none' },
       }}

@@ -192,7 +192,8 @@ export function StudentPage() {
   const [term, setTerm] = useState<string | null>(null);
   const [why, setWhy] = useState<ElectiveEstimate | null>(null);
   // Shortlists, notes and summaries are advisors' work; registrar staff read the rest.
-  const advises = useAuth().user?.role === 'advisor';
+  const me = useAuth().user;
+  const advises = me?.role === 'advisor';
   const shortlist = useShortlist(ref, advises);
   const updateShortlist = useUpdateShortlist(ref);
   const electives = useElectives(ref, term);
@@ -255,6 +256,10 @@ export function StudentPage() {
           </Box>
         }
       />
+      <Typography className="kp-print-only kp-figures" sx={{ mb: 1 }}>
+        Printed {dateTime(new Date().toISOString())} by {me?.displayName ?? 'an advisor'}
+        {me?.email ? ` (${me.email})` : ''}
+      </Typography>
       <Box
         className="kp-student-page"
         sx={{ display: 'grid', gap: 3, gridTemplateColumns: 'minmax(0, 1fr)' }}
