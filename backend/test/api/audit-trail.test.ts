@@ -60,7 +60,10 @@ describe('the audit trail, readable', () => {
     const res = await api()
       .get('/api/audit')
       .set(...bearer(admin));
-    const missing = (res.body.actions as string[]).filter((a) => !AUDIT_ACTION_LABELS[a]);
+    // Other tests write `test.*` probes straight into the table; the product never does.
+    const missing = (res.body.actions as string[]).filter(
+      (a) => !AUDIT_ACTION_LABELS[a] && !a.startsWith('test.'),
+    );
     expect(missing).toEqual([]);
   });
 });

@@ -56,6 +56,10 @@ export const ACCESS: Record<string, Rule> = {
   'GET /api/imports/{id}/errors': { access: REGISTRAR },
   'POST /api/imports/{id}/commit': { access: REGISTRAR },
   'POST /api/imports/{id}/rollback': { access: REGISTRAR },
+  'POST /api/imports/{id}/discard': { access: REGISTRAR },
+  'POST /api/imports/{id}/check-again': { access: REGISTRAR },
+  'GET /api/imports/{id}/rejected-rows': { access: REGISTRAR },
+  'GET /api/imports/{id}/preview': { access: REGISTRAR },
 
   'GET /api/courses': { access: 'signed-in' },
   'GET /api/terms': { access: 'signed-in' },

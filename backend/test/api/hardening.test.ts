@@ -150,7 +150,9 @@ describe('the audit trail', () => {
     expect(res.headers['content-type']).toMatch(/^text\/csv/);
     expect(res.headers['content-disposition']).toMatch(/attachment; filename="kinpath-audit-/);
     const lines = res.text.trim().split('\r\n');
-    expect(lines[0]).toBe('"at","actor_email","actor_id","action","target","detail"');
+    expect(lines[0]).toBe(
+      '"at","actor_email","actor_id","action","target","detail","target_label"',
+    );
     expect(lines).toHaveLength(2);
     // Addresses are stored lower-case.
     expect(lines[1]).toContain(`"'=hyperlink(""http://x"")`);

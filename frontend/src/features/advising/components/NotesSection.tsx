@@ -121,7 +121,9 @@ export function NotesSection({ studentRef }: { studentRef: string }) {
                 {note.authorEmail === me ? (
                   <OwnNote note={note} studentRef={studentRef} />
                 ) : (
-                  <Typography sx={{ whiteSpace: 'pre-wrap' }}>{note.text}</Typography>
+                  <Typography sx={{ whiteSpace: 'pre-wrap', overflowWrap: 'anywhere' }}>
+                    {note.text}
+                  </Typography>
                 )}
               </Box>
             ))}
@@ -194,7 +196,9 @@ function OwnNote({ note, studentRef }: { note: AdvisingNote; studentRef: string 
         </Box>
       ) : (
         <>
-          <Typography sx={{ whiteSpace: 'pre-wrap' }}>{note.text}</Typography>
+          <Typography sx={{ whiteSpace: 'pre-wrap', overflowWrap: 'anywhere' }}>
+            {note.text}
+          </Typography>
           <Box className="kp-no-print" sx={{ display: 'flex', gap: 1, mt: 0.5 }}>
             <Button size="small" onClick={() => setEditing(true)}>
               Edit

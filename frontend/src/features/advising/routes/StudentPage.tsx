@@ -307,7 +307,10 @@ export function StudentPage() {
             />
           ) : null}
           {advises ? (
-            <Box className="kp-no-print" sx={{ display: 'grid', gap: 3, minWidth: 0 }}>
+            <Box
+              className="kp-no-print"
+              sx={{ display: 'grid', gap: 3, minWidth: 0, gridTemplateColumns: 'minmax(0, 1fr)' }}
+            >
               <NotesSection studentRef={ref} />
               <SentSummaries studentRef={ref} />
             </Box>

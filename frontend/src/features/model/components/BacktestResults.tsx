@@ -110,7 +110,11 @@ export function BacktestResults({ evaluation, onUse }: BacktestResultsProps) {
       ) : null}
 
       <TableContainer component={Paper} variant="outlined" sx={{ mb: 1 }}>
-        <Table size="small" aria-label={`Backtest results, ${SIGNAL_WORDS[signal]}`}>
+        <Table
+          size="small"
+          sx={{ '& td, & th': { px: 1 } }}
+          aria-label={`Backtest results, ${SIGNAL_WORDS[signal]}`}
+        >
           <TableHead>
             <TableRow>
               <TableCell>Configuration or baseline</TableCell>
