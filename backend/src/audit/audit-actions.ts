@@ -14,5 +14,7 @@ export const AUDIT_ACTIONS = {
   userUpdated: 'user.updated',
   demoLoaded: 'demo.loaded',
   firstAdminCreated: 'user.first_admin_created',
+  apiTokenCreated: 'api_token.created',
+  apiTokenRevoked: 'api_token.revoked',
 } as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[keyof typeof AUDIT_ACTIONS];

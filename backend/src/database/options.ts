@@ -1,5 +1,6 @@
 import type { DataSourceOptions } from 'typeorm';
 import type { DatabaseConfig } from '../config/config';
+import { ApiToken } from '../api-tokens/entities/api-token.entity';
 import { AuditEvent } from '../audit/entities/audit-event.entity';
 import { Course } from '../term-data/entities/course.entity';
 import { GradeScaleEntryEntity } from '../term-data/entities/grade-scale-entry.entity';
@@ -18,6 +19,7 @@ export const ENTITIES = [
   Student,
   StudentRecord,
   GradeScaleEntryEntity,
+  ApiToken,
 ];
 
 /**

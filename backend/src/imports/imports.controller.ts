@@ -20,7 +20,7 @@ import {
 } from '@nestjs/common';
 import { ApiConsumes, ApiOperation, ApiProduces, ApiTags } from '@nestjs/swagger';
 import type { Response } from 'express';
-import { CurrentUser, Roles, SignedIn } from '../auth/decorators';
+import { CurrentUser, Roles, Scopes, SignedIn } from '../auth/decorators';
 import type { User } from '../users/entities/user.entity';
 import { CreateImportDto } from './dto/create-import.dto';
 import { SaveMappingDto } from './dto/save-mapping.dto';
@@ -35,6 +35,7 @@ export class ImportsController {
   constructor(private readonly imports: ImportsService) {}
 
   @Post()
+  @Scopes('imports:write')
   @HttpCode(202)
   @ApiConsumes('multipart/form-data')
   @ApiOperation({
@@ -50,6 +51,7 @@ export class ImportsController {
   }
 
   @Post('preview')
+  @Scopes('imports:write')
   @HttpCode(200)
   @ApiConsumes('multipart/form-data')
   @ApiOperation({ summary: 'Headers, first rows and suggested mappings of a file, for mapping.' })
@@ -59,11 +61,13 @@ export class ImportsController {
   }
 
   @Get('mappings')
+  @Scopes('imports:read')
   mappings(): Promise<SavedImportMapping[]> {
     return this.imports.mappings();
   }
 
   @Post('mappings')
+  @Scopes('imports:write')
   saveMapping(
     @Body() body: SaveMappingDto,
     @CurrentUser() user: User,
@@ -72,16 +76,19 @@ export class ImportsController {
   }
 
   @Get()
+  @Scopes('imports:read')
   list(): Promise<ImportSummary[]> {
     return this.imports.list();
   }
 
   @Get(':id')
+  @Scopes('imports:read')
   get(@Param('id', ParseUUIDPipe) id: string): Promise<ImportSummary> {
     return this.imports.get(id);
   }
 
   @Get(':id/errors')
+  @Scopes('imports:read')
   @ApiProduces('application/json', 'text/csv')
   @ApiOperation({ summary: 'Rejected cells: JSON, or CSV with `Accept: text/csv`.' })
   async errors(
@@ -99,6 +106,7 @@ export class ImportsController {
   }
 
   @Post(':id/commit')
+  @Scopes('imports:write')
   @HttpCode(202)
   @ApiOperation({ summary: 'Commit the accepted rows of a validated import.' })
   commit(
@@ -109,6 +117,7 @@ export class ImportsController {
   }
 
   @Post(':id/rollback')
+  @Scopes('imports:write')
   @HttpCode(200)
   @ApiOperation({ summary: 'Restore the term data as it was before this import.' })
   rollback(

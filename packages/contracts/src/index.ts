@@ -13,3 +13,4 @@ export * from './advising';
 export * from './accounts';
 export * from './evaluations';
 export * from './forecasts';
+export * from './api-tokens';

@@ -6,6 +6,7 @@ import { AccountSecurity1796184850000 } from './1796184850000-AccountSecurity';
 import { ModelEvaluations1796184937000 } from './1796184937000-ModelEvaluations';
 import { DemandOutlook1796185100000 } from './1796185100000-DemandOutlook';
 import { ScoringStorage1796185200000 } from './1796185200000-ScoringStorage';
+import { ApiTokens1796407100000 } from './1796407100000-ApiTokens';
 
 /** Every migration, oldest first. A new migration is added here as well as to this folder. */
 export const MIGRATIONS = [
@@ -17,4 +18,5 @@ export const MIGRATIONS = [
   ModelEvaluations1796184937000,
   DemandOutlook1796185100000,
   ScoringStorage1796185200000,
+  ApiTokens1796407100000,
 ];
