@@ -45,6 +45,7 @@ describe('role navigation', () => {
       'Backtests',
       'Demand outlook',
       'Audit trail',
+      'Script tokens',
     ]);
     expect(screen.queryByRole('link', { name: 'Student lookup' })).toBeNull();
   });

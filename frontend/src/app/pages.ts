@@ -34,6 +34,11 @@ export const PAGES = {
   },
   users: { path: '/admin/users', navLabel: 'Users', roles: ['admin'] },
   audit: { path: '/audit', navLabel: 'Audit trail', roles: ['admin', 'registrar'] },
+  scriptTokens: {
+    path: '/script-tokens',
+    navLabel: 'Script tokens',
+    roles: ['admin', 'registrar'],
+  },
 } as const satisfies Record<string, RolePage>;
 
 export type PageKey = keyof typeof PAGES;
@@ -50,9 +55,10 @@ const NAVIGATION: Record<Role, readonly PageKey[]> = {
     'backtests',
     'outlook',
     'audit',
+    'scriptTokens',
   ],
   department_head: ['outlook'],
-  admin: ['users', 'audit'],
+  admin: ['users', 'audit', 'scriptTokens'],
 };
 
 export function navigationFor(role: Role): RolePage[] {
