@@ -7,6 +7,15 @@ import { CATALOGUE, upload } from '../support/imports';
 const DAY_MS = 86_400_000;
 const inDays = (days: number) => new Date(Date.now() + days * DAY_MS).toISOString().slice(0, 10);
 
+/** The status a GET answers with this bearer secret. */
+async function statusOf(path: string, secret: string): Promise<number> {
+  return (
+    await api()
+      .get(path)
+      .set(...bearer(secret))
+  ).status;
+}
+
 let admin: string;
 let registrar: string;
 
@@ -72,13 +81,7 @@ describe('script tokens', () => {
     expect(row.whole).not.toContain(secret.slice(3));
 
     // A use is noted on the token, not as an audit row: reading writes nothing to the trail.
-    expect(
-      (
-        await api()
-          .get('/api/terms')
-          .set(...bearer(secret))
-      ).status,
-    ).toBe(200);
+    expect(await statusOf('/api/terms', secret)).toBe(200);
     const after = await api()
       .get('/api/api-tokens')
       .set(...bearer(registrar));
@@ -97,20 +100,8 @@ describe('script tokens', () => {
 
   it('opens the routes of its scopes only, and never the session, account or token routes', async () => {
     const { secret } = await createToken(registrar, ['terms:read', 'imports:read']);
-    expect(
-      (
-        await api()
-          .get('/api/terms')
-          .set(...bearer(secret))
-      ).status,
-    ).toBe(200);
-    expect(
-      (
-        await api()
-          .get('/api/imports')
-          .set(...bearer(secret))
-      ).status,
-    ).toBe(200);
+    expect(await statusOf('/api/terms', secret)).toBe(200);
+    expect(await statusOf('/api/imports', secret)).toBe(200);
     for (const [method, path] of [
       ['get', '/api/courses'],
       ['get', '/api/forecasts/about'],
@@ -134,47 +125,17 @@ describe('script tokens', () => {
 
   it('acts with its owner’s role: an admin’s token with every scope cannot reach imports', async () => {
     const { secret } = await createToken(admin, [...API_TOKEN_SCOPES]);
-    expect(
-      (
-        await api()
-          .get('/api/imports')
-          .set(...bearer(secret))
-      ).status,
-    ).toBe(403);
-    expect(
-      (
-        await api()
-          .get('/api/users')
-          .set(...bearer(secret))
-      ).status,
-    ).toBe(403);
-    expect(
-      (
-        await api()
-          .get('/api/courses')
-          .set(...bearer(secret))
-      ).status,
-    ).toBe(200);
+    expect(await statusOf('/api/imports', secret)).toBe(403);
+    expect(await statusOf('/api/users', secret)).toBe(403);
+    expect(await statusOf('/api/courses', secret)).toBe(200);
   });
 
   it('answers 401 to an unknown, revoked or expired token', async () => {
     const unknown = 'kp_' + 'A'.repeat(43);
-    expect(
-      (
-        await api()
-          .get('/api/terms')
-          .set(...bearer(unknown))
-      ).status,
-    ).toBe(401);
+    expect(await statusOf('/api/terms', unknown)).toBe(401);
 
     const revoked = await createToken(registrar, ['terms:read']);
-    expect(
-      (
-        await api()
-          .get('/api/terms')
-          .set(...bearer(revoked.secret))
-      ).status,
-    ).toBe(200);
+    expect(await statusOf('/api/terms', revoked.secret)).toBe(200);
     const res = await api()
       .post(`/api/api-tokens/${revoked.token.id}/revoke`)
       .set(...bearer(registrar));
@@ -192,13 +153,7 @@ describe('script tokens', () => {
         expired.token.id,
       ]),
     );
-    expect(
-      (
-        await api()
-          .get('/api/terms')
-          .set(...bearer(expired.secret))
-      ).status,
-    ).toBe(401);
+    expect(await statusOf('/api/terms', expired.secret)).toBe(401);
     const list = await api()
       .get('/api/api-tokens')
       .set(...bearer(registrar));
@@ -208,25 +163,13 @@ describe('script tokens', () => {
   it('stops working when its owner is deactivated', async () => {
     const owner = await newRegistrar();
     const { secret } = await createToken(owner.session, ['terms:read']);
-    expect(
-      (
-        await api()
-          .get('/api/terms')
-          .set(...bearer(secret))
-      ).status,
-    ).toBe(200);
+    expect(await statusOf('/api/terms', secret)).toBe(200);
     const off = await api()
       .patch(`/api/users/${owner.id}`)
       .set(...bearer(admin))
       .send({ active: false });
     expect(off.status, off.text).toBe(200);
-    expect(
-      (
-        await api()
-          .get('/api/terms')
-          .set(...bearer(secret))
-      ).status,
-    ).toBe(401);
+    expect(await statusOf('/api/terms', secret)).toBe(401);
   });
 
   it('lets admins manage every token and registrar staff only their own', async () => {

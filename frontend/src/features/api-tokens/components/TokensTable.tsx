@@ -45,8 +45,13 @@ function RevokeButton({
   if (token.state === 'revoked') return null;
   return (
     <>
-      <Button size="small" color="error" onClick={() => setOpen(true)}>
-        Revoke<Box component="span" sx={visuallyHidden}>{` ${token.name}`}</Box>
+      <Button
+        size="small"
+        color="error"
+        aria-label={`Revoke ${token.name}`}
+        onClick={() => setOpen(true)}
+      >
+        Revoke
       </Button>
       <ConfirmDialog
         open={open}
@@ -74,15 +79,6 @@ function RevokeButton({
     </>
   );
 }
-
-const visuallyHidden = {
-  position: 'absolute',
-  width: 1,
-  height: 1,
-  overflow: 'hidden',
-  clip: 'rect(0 0 0 0)',
-  whiteSpace: 'nowrap',
-} as const;
 
 export function TokensTable({
   tokens,
