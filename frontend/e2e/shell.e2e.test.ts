@@ -62,6 +62,22 @@ describe('sign-in and each role’s landing page', () => {
     });
   }
 
+  it('shows the script tokens page and the one-time secret accessibly', async () => {
+    await freshPage();
+    await signIn(page, 'registrar@halden.example');
+    await page.waitForURL('**/registrar');
+    await page.getByRole('link', { name: 'Script tokens' }).click();
+    await page.getByRole('heading', { level: 1, name: 'Script tokens' }).waitFor();
+    await expectAccessible(page);
+    await page.getByRole('textbox', { name: 'Name' }).fill('Accessibility check');
+    await page.getByRole('checkbox', { name: /terms:read/ }).check();
+    await page.getByRole('button', { name: 'Create token' }).click();
+    const dialog = page.getByRole('dialog', { name: /Copy the secret/ });
+    await dialog.waitFor();
+    expect(await dialog.getByRole('textbox', { name: 'Secret' }).inputValue()).toMatch(/^kp_/);
+    await expectAccessible(page);
+  });
+
   it('tells an advisor that the users page is not for their role', async () => {
     await freshPage();
     await signIn(page, 'advisor@halden.example');

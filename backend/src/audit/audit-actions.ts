@@ -16,5 +16,7 @@ export const AUDIT_ACTIONS = {
   firstAdminCreated: 'user.first_admin_created',
   departmentAdded: 'department.added',
   departmentRemoved: 'department.removed',
+  apiTokenCreated: 'api_token.created',
+  apiTokenRevoked: 'api_token.revoked',
 } as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[keyof typeof AUDIT_ACTIONS];

@@ -4,6 +4,7 @@ import { type EntityManager, MoreThan, type Repository } from 'typeorm';
 import type { User } from '../users/entities/user.entity';
 import type { AuditAction } from './audit-actions';
 import { AuditEvent } from './entities/audit-event.entity';
+import { viaApiToken } from '../api-tokens/token-actor';
 
 export interface AuditEntry {
   /** Who acted; null for a system action. An e-mail alone records an unknown or failed actor. */
@@ -26,12 +27,16 @@ export class AuditService {
   /** Appends one event; pass `manager` to write it inside the caller's transaction. */
   async record(entry: AuditEntry, manager?: EntityManager): Promise<void> {
     const repository = manager ? manager.getRepository(AuditEvent) : this.events;
+    // An action done with a script token names the token beside its owner.
+    const token = viaApiToken(entry.actor);
     const event = repository.create({
       actorId: entry.actor?.id ?? null,
       actorEmail: entry.actor?.email ?? null,
       action: entry.action,
       target: entry.target ?? null,
-      detail: entry.detail ?? {},
+      detail: token
+        ? { ...entry.detail, apiToken: token.name, apiTokenId: token.id }
+        : (entry.detail ?? {}),
     });
     // One INSERT: by default save() wraps each row in a transaction of its own.
     await repository.save(event, { reload: false, transaction: false });

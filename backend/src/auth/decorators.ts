@@ -1,4 +1,4 @@
-import type { Role } from '@kinpath/contracts';
+import type { ApiTokenScope, Role } from '@kinpath/contracts';
 import {
   applyDecorators,
   createParamDecorator,
@@ -16,10 +16,12 @@ import type { RequestSession } from './sessions';
 
 export const IS_PUBLIC = 'kinpath:public';
 export const ROLES = 'kinpath:roles';
+export const SCOPES = 'kinpath:scopes';
 
 /** OpenAPI extensions that state each route's access, for readers and the authorization tests. */
 export const OPENAPI_PUBLIC = 'x-kinpath-public';
 export const OPENAPI_ROLES = 'x-kinpath-roles';
+export const OPENAPI_SCOPES = 'x-kinpath-token-scopes';
 
 /** Opens a route to anyone; every other route needs a valid token. */
 export const Public = () =>
@@ -34,6 +36,13 @@ export const Roles = (...roles: Role[]) =>
       description: `Not available for your role (needs ${roles.join(' or ')}).`,
     }),
   );
+
+/**
+ * Lets a script token with one of these scopes call the route (its owner's role must still
+ * fit @Roles). A route without @Scopes refuses every script token with 403.
+ */
+export const Scopes = (...scopes: ApiTokenScope[]) =>
+  applyDecorators(SetMetadata(SCOPES, scopes), ApiExtension(OPENAPI_SCOPES, scopes));
 
 /** Marks a controller as needing sign-in in the OpenAPI document. */
 export const SignedIn = () =>

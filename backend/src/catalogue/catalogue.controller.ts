@@ -1,7 +1,7 @@
 import type { CourseSummary, TermsResponse } from '@kinpath/contracts';
 import { Controller, Get, Query } from '@nestjs/common';
 import { ApiOperation, ApiTags } from '@nestjs/swagger';
-import { SignedIn } from '../auth/decorators';
+import { Scopes, SignedIn } from '../auth/decorators';
 import { CatalogueService } from './catalogue.service';
 import { ListCoursesQuery } from './dto/list-courses.query';
 
@@ -12,6 +12,7 @@ export class CatalogueController {
   constructor(private readonly catalogue: CatalogueService) {}
 
   @Get('courses')
+  @Scopes('courses:read')
   @ApiOperation({ summary: 'The catalogue, optionally of one department or electives only.' })
   courses(@Query() query: ListCoursesQuery): Promise<CourseSummary[]> {
     return this.catalogue.list({
@@ -21,6 +22,7 @@ export class CatalogueController {
   }
 
   @Get('terms')
+  @Scopes('terms:read')
   @ApiOperation({ summary: 'Known terms in time order, with the current and the next term.' })
   terms(): Promise<TermsResponse> {
     return this.catalogue.terms();

@@ -1,5 +1,6 @@
 import type { DataSourceOptions } from 'typeorm';
 import type { DatabaseConfig } from '../config/config';
+import { ApiToken } from '../api-tokens/entities/api-token.entity';
 import { AuditEvent } from '../audit/entities/audit-event.entity';
 import { Department } from '../departments/entities/department.entity';
 import { Course } from '../term-data/entities/course.entity';
@@ -20,6 +21,7 @@ export const ENTITIES = [
   StudentRecord,
   GradeScaleEntryEntity,
   Department,
+  ApiToken,
 ];
 
 /**

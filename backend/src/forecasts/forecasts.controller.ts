@@ -7,7 +7,7 @@ import type {
 import { Body, Controller, Get, Headers, HttpCode, Post, Query, Res } from '@nestjs/common';
 import { ApiOperation, ApiProduces, ApiTags } from '@nestjs/swagger';
 import type { Response } from 'express';
-import { CurrentUser, Roles, SignedIn } from '../auth/decorators';
+import { CurrentUser, Roles, Scopes, SignedIn } from '../auth/decorators';
 import { RateLimit } from '../auth/rate-limit';
 import type { User } from '../users/entities/user.entity';
 import { BacktestQuery, ForecastsQuery, OutlookTermDto } from './dto/forecasts.query';
@@ -33,6 +33,7 @@ export class ForecastsController {
   ) {}
 
   @Get()
+  @Scopes('forecasts:read')
   @Roles('department_head', 'registrar')
   @ApiProduces('application/json', 'text/csv')
   @ApiOperation({
@@ -54,6 +55,7 @@ export class ForecastsController {
   }
 
   @Get('export')
+  @Scopes('forecasts:read')
   @Roles('department_head', 'registrar')
   @ApiProduces('text/csv')
   @ApiOperation({
@@ -70,6 +72,7 @@ export class ForecastsController {
   }
 
   @Get('about')
+  @Scopes('forecasts:read')
   @Roles('department_head', 'registrar')
   @ApiOperation({
     summary:
@@ -80,6 +83,7 @@ export class ForecastsController {
   }
 
   @Get('backtest')
+  @Scopes('forecasts:read')
   @Roles('department_head', 'registrar')
   @ApiOperation({
     summary:

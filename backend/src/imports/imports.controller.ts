@@ -20,7 +20,7 @@ import {
 } from '@nestjs/common';
 import { ApiConsumes, ApiOperation, ApiProduces, ApiTags } from '@nestjs/swagger';
 import type { Response } from 'express';
-import { CurrentUser, Roles, SignedIn } from '../auth/decorators';
+import { CurrentUser, Roles, Scopes, SignedIn } from '../auth/decorators';
 import type { User } from '../users/entities/user.entity';
 import { CheckAgainDto, CreateImportDto, PreviewImportDto } from './dto/create-import.dto';
 import { SaveMappingDto } from './dto/save-mapping.dto';
@@ -35,6 +35,7 @@ export class ImportsController {
   constructor(private readonly imports: ImportsService) {}
 
   @Post()
+  @Scopes('imports:write')
   @HttpCode(202)
   @ApiConsumes('multipart/form-data')
   @ApiOperation({
@@ -57,6 +58,7 @@ export class ImportsController {
   }
 
   @Post('preview')
+  @Scopes('imports:write')
   @HttpCode(200)
   @ApiConsumes('multipart/form-data')
   @ApiOperation({ summary: 'Headers, first rows and suggested mappings of a file, for mapping.' })
@@ -69,11 +71,13 @@ export class ImportsController {
   }
 
   @Get('mappings')
+  @Scopes('imports:read')
   mappings(): Promise<SavedImportMapping[]> {
     return this.imports.mappings();
   }
 
   @Post('mappings')
+  @Scopes('imports:write')
   saveMapping(
     @Body() body: SaveMappingDto,
     @CurrentUser() user: User,
@@ -82,16 +86,19 @@ export class ImportsController {
   }
 
   @Get()
+  @Scopes('imports:read')
   list(): Promise<ImportSummary[]> {
     return this.imports.list();
   }
 
   @Get(':id')
+  @Scopes('imports:read')
   get(@Param('id', ParseUUIDPipe) id: string): Promise<ImportSummary> {
     return this.imports.get(id);
   }
 
   @Get(':id/errors')
+  @Scopes('imports:read')
   @ApiProduces('application/json', 'text/csv')
   @ApiOperation({ summary: 'Rejected cells: JSON, or CSV with `Accept: text/csv`.' })
   async errors(
@@ -109,6 +116,7 @@ export class ImportsController {
   }
 
   @Get(':id/preview')
+  @Scopes('imports:read')
   @ApiOperation({
     summary: 'Headers and first rows of a validated import’s kept file, to map it again.',
   })
@@ -117,6 +125,7 @@ export class ImportsController {
   }
 
   @Get(':id/rejected-rows')
+  @Scopes('imports:read')
   @ApiProduces('text/csv')
   @ApiOperation({
     summary:
@@ -134,6 +143,7 @@ export class ImportsController {
   }
 
   @Post(':id/discard')
+  @Scopes('imports:write')
   @HttpCode(200)
   @ApiOperation({
     summary: 'Discard a validated import that is not wanted; its files are removed.',
@@ -146,6 +156,7 @@ export class ImportsController {
   }
 
   @Post(':id/check-again')
+  @Scopes('imports:write')
   @HttpCode(202)
   @ApiOperation({
     summary: 'Check the kept file of a validated import again with another mapping.',
@@ -159,6 +170,7 @@ export class ImportsController {
   }
 
   @Post(':id/commit')
+  @Scopes('imports:write')
   @HttpCode(202)
   @ApiOperation({ summary: 'Commit the accepted rows of a validated import.' })
   commit(
@@ -169,6 +181,7 @@ export class ImportsController {
   }
 
   @Post(':id/rollback')
+  @Scopes('imports:write')
   @HttpCode(200)
   @ApiOperation({ summary: 'Restore the term data as it was before this import.' })
   rollback(

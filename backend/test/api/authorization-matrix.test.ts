@@ -1,4 +1,4 @@
-import { ROLES, type Role } from '@kinpath/contracts';
+import { API_TOKEN_SCOPES, type ApiTokenScope, ROLES, type Role } from '@kinpath/contracts';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { bearer, DEMO_PASSWORD, DEMO_USERS, signIn } from '../support/api';
@@ -15,6 +15,8 @@ interface Rule {
   access: Access;
   /** A department head may ask for their own department only (`?department=`). */
   departmentScoped?: boolean;
+  /** The script token scope that opens the route; without one, every script token gets 403. */
+  scope?: ApiTokenScope;
 }
 
 const REGISTRAR: readonly Role[] = ['registrar'];
@@ -47,22 +49,26 @@ export const ACCESS: Record<string, Rule> = {
 
   'GET /api/audit': { access: ['admin', 'registrar'] },
 
-  'POST /api/imports': { access: REGISTRAR },
-  'POST /api/imports/preview': { access: REGISTRAR },
-  'GET /api/imports/mappings': { access: REGISTRAR },
-  'POST /api/imports/mappings': { access: REGISTRAR },
-  'GET /api/imports': { access: REGISTRAR },
-  'GET /api/imports/{id}': { access: REGISTRAR },
-  'GET /api/imports/{id}/errors': { access: REGISTRAR },
-  'POST /api/imports/{id}/commit': { access: REGISTRAR },
-  'POST /api/imports/{id}/rollback': { access: REGISTRAR },
-  'POST /api/imports/{id}/discard': { access: REGISTRAR },
-  'POST /api/imports/{id}/check-again': { access: REGISTRAR },
-  'GET /api/imports/{id}/rejected-rows': { access: REGISTRAR },
-  'GET /api/imports/{id}/preview': { access: REGISTRAR },
+  'GET /api/api-tokens': { access: ['admin', 'registrar'] },
+  'POST /api/api-tokens': { access: ['admin', 'registrar'] },
+  'POST /api/api-tokens/{id}/revoke': { access: ['admin', 'registrar'] },
 
-  'GET /api/courses': { access: 'signed-in' },
-  'GET /api/terms': { access: 'signed-in' },
+  'POST /api/imports': { access: REGISTRAR, scope: 'imports:write' },
+  'POST /api/imports/preview': { access: REGISTRAR, scope: 'imports:write' },
+  'GET /api/imports/mappings': { access: REGISTRAR, scope: 'imports:read' },
+  'POST /api/imports/mappings': { access: REGISTRAR, scope: 'imports:write' },
+  'GET /api/imports': { access: REGISTRAR, scope: 'imports:read' },
+  'GET /api/imports/{id}': { access: REGISTRAR, scope: 'imports:read' },
+  'GET /api/imports/{id}/errors': { access: REGISTRAR, scope: 'imports:read' },
+  'POST /api/imports/{id}/commit': { access: REGISTRAR, scope: 'imports:write' },
+  'POST /api/imports/{id}/rollback': { access: REGISTRAR, scope: 'imports:write' },
+  'POST /api/imports/{id}/discard': { access: REGISTRAR, scope: 'imports:write' },
+  'POST /api/imports/{id}/check-again': { access: REGISTRAR, scope: 'imports:write' },
+  'GET /api/imports/{id}/rejected-rows': { access: REGISTRAR, scope: 'imports:read' },
+  'GET /api/imports/{id}/preview': { access: REGISTRAR, scope: 'imports:read' },
+
+  'GET /api/courses': { access: 'signed-in', scope: 'courses:read' },
+  'GET /api/terms': { access: 'signed-in', scope: 'terms:read' },
   'GET /api/grade-scale': { access: 'signed-in' },
   'PUT /api/grade-scale': { access: REGISTRAR },
 
@@ -89,10 +95,14 @@ export const ACCESS: Record<string, Rule> = {
   'PUT /api/students/{ref}/shortlist': { access: ADVISOR },
   'POST /api/students/{ref}/summary': { access: ADVISOR },
 
-  'GET /api/forecasts': { access: OUTLOOK, departmentScoped: true },
-  'GET /api/forecasts/backtest': { access: OUTLOOK, departmentScoped: true },
-  'GET /api/forecasts/export': { access: OUTLOOK, departmentScoped: true },
-  'GET /api/forecasts/about': { access: OUTLOOK },
+  'GET /api/forecasts': { access: OUTLOOK, departmentScoped: true, scope: 'forecasts:read' },
+  'GET /api/forecasts/backtest': {
+    access: OUTLOOK,
+    departmentScoped: true,
+    scope: 'forecasts:read',
+  },
+  'GET /api/forecasts/export': { access: OUTLOOK, departmentScoped: true, scope: 'forecasts:read' },
+  'GET /api/forecasts/about': { access: OUTLOOK, scope: 'forecasts:read' },
   'GET /api/forecasts/runs': { access: REGISTRAR },
   'POST /api/forecasts/runs': { access: REGISTRAR },
 };
@@ -115,11 +125,14 @@ interface Operation {
   key: string;
   documentedRoles: string[] | undefined;
   documentedPublic: boolean;
+  documentedScopes: string[] | undefined;
 }
 
 let server: TestServer;
 let operations: Operation[];
 const tokens = new Map<Identity, string>();
+/** A registrar's script token holding every scope. */
+let scriptToken: string;
 
 beforeAll(async () => {
   const shared = JSON.parse(process.env.KINPATH_TEST_SERVER_ENV ?? '{}') as Record<string, string>;
@@ -142,6 +155,7 @@ beforeAll(async () => {
         key: `${method.toUpperCase()} ${path}`,
         documentedRoles: op['x-kinpath-roles'] as string[] | undefined,
         documentedPublic: op['x-kinpath-public'] === true,
+        documentedScopes: op['x-kinpath-token-scopes'] as string[] | undefined,
       });
     }
   }
@@ -166,6 +180,16 @@ beforeAll(async () => {
     });
   expect(created.status, created.text).toBe(201);
   tokens.set('other_head', await signIn(otherHead.email, otherHead.password, server.url));
+  const script = await request(server.url)
+    .post('/api/api-tokens')
+    .set(...bearer(tokens.get('registrar')!))
+    .send({
+      name: 'Matrix script',
+      scopes: [...API_TOKEN_SCOPES],
+      expiresOn: new Date(Date.now() + 7 * 86_400_000).toISOString().slice(0, 10),
+    });
+  expect(script.status, script.text).toBe(201);
+  scriptToken = script.body.secret as string;
 }, 90_000);
 
 afterAll(async () => {
@@ -183,13 +207,13 @@ function expected(rule: Rule, who: Identity): 'open' | 401 | 403 {
   return 'open';
 }
 
-async function call(op: Operation, who: Identity, rule: Rule) {
+async function call(op: Operation, who: Identity, rule: Rule, asToken?: string) {
   const path = op.path.replace(/\{(\w+)\}/g, (_, name: string) =>
     encodeURIComponent(PARAMS[name] ?? 'x'),
   );
   // Signing out would end the session the other calls use; it gets a session of its own.
-  let token = who === 'anonymous' ? undefined : tokens.get(who);
-  if (op.key === 'POST /api/auth/logout' && who !== 'anonymous') {
+  let token = who === 'anonymous' ? undefined : (asToken ?? tokens.get(who));
+  if (op.key === 'POST /api/auth/logout' && who !== 'anonymous' && !asToken) {
     const email = who === 'other_head' ? 'head.mth@halden.example' : DEMO_USERS[who];
     const password = who === 'other_head' ? 'bramble-harbour-lantern-5' : DEMO_PASSWORD;
     token = await signIn(email, password, server.url);
@@ -217,6 +241,9 @@ describe('authorization matrix', () => {
           roles,
         );
       }
+      expect(op.documentedScopes, `${op.key} script token scopes`).toEqual(
+        rule.scope ? [rule.scope] : undefined,
+      );
     }
     expect(operations.length).toBeGreaterThan(20);
   });
@@ -247,5 +274,19 @@ describe('authorization matrix', () => {
     console.log(
       `authorization matrix: ${operations.length} routes × ${IDENTITIES.length} callers = ${calls} calls`,
     );
+  }, 120_000);
+
+  it('lets a script token with every scope through only where a scope opens the route and the owner’s role fits', async () => {
+    const failures: string[] = [];
+    for (const op of operations) {
+      const rule = ACCESS[op.key];
+      if (!rule || rule.access === 'public') continue;
+      const res = await call(op, 'registrar', rule, scriptToken);
+      const opens = rule.scope !== undefined && expected(rule, 'registrar') === 'open';
+      const got = res.status;
+      const ok = opens ? got !== 401 && got !== 403 && got < 500 : got === 403;
+      if (!ok) failures.push(`${op.key}: expected ${opens ? 'open' : 403}, got ${got}`);
+    }
+    expect(failures).toEqual([]);
   }, 120_000);
 });

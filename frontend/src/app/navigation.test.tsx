@@ -46,6 +46,7 @@ describe('role navigation', () => {
       'Demand outlook',
       'Audit trail',
       'Student lookup',
+      'Script tokens',
     ]);
   });
 

@@ -35,6 +35,11 @@ export const PAGES = {
   },
   users: { path: '/admin/users', navLabel: 'Users', roles: ['admin'] },
   audit: { path: '/audit', navLabel: 'Audit trail', roles: ['admin', 'registrar'] },
+  scriptTokens: {
+    path: '/script-tokens',
+    navLabel: 'Script tokens',
+    roles: ['admin', 'registrar'],
+  },
 } as const satisfies Record<string, RolePage>;
 
 export type PageKey = keyof typeof PAGES;
@@ -52,9 +57,10 @@ const NAVIGATION: Record<Role, readonly PageKey[]> = {
     'outlook',
     'audit',
     'advising',
+    'scriptTokens',
   ],
   department_head: ['outlook'],
-  admin: ['users', 'audit'],
+  admin: ['users', 'audit', 'scriptTokens'],
 };
 
 export function navigationFor(role: Role): RolePage[] {

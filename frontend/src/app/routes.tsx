@@ -91,6 +91,11 @@ export const routes: RouteObject[] = [
           rolePage(PAGES.audit, () =>
             import('../features/audit/routes/AuditPage').then((m) => m.AuditPage),
           ),
+          rolePage(PAGES.scriptTokens, () =>
+            import('../features/api-tokens/routes/ScriptTokensPage').then(
+              (m) => m.ScriptTokensPage,
+            ),
+          ),
         ],
       },
       { path: '*', element: <NotFoundPage /> },

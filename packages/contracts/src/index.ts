@@ -15,3 +15,4 @@ export * from './evaluations';
 export * from './forecasts';
 export * from './departments';
 export * from './figures';
+export * from './api-tokens';

@@ -11,6 +11,7 @@ import { Departments1796403900000 } from './1796403900000-Departments';
 import { EstimatorSettings1796404426012 } from './1796404426012-EstimatorSettings';
 import { ChoiceOutlook1796404495670 } from './1796404495670-ChoiceOutlook';
 import { NoteEditsAndSentSummaries1796405000000 } from './1796405000000-NoteEditsAndSentSummaries';
+import { ApiTokens1796407100000 } from './1796407100000-ApiTokens';
 
 /** Every migration, oldest first. A new migration is added here as well as to this folder. */
 export const MIGRATIONS = [
@@ -27,4 +28,5 @@ export const MIGRATIONS = [
   EstimatorSettings1796404426012,
   ChoiceOutlook1796404495670,
   NoteEditsAndSentSummaries1796405000000,
+  ApiTokens1796407100000,
 ];
