@@ -49,11 +49,11 @@ const columns = [
   column.accessor((e) => detailText(e.detail), { id: 'detail', header: 'Detail' }),
 ];
 
-// Short columns keep their words whole. Targets and details may hold ids with no space to
-// break at: only those two may break inside a word, and the detail keeps room for whole words.
-const ENTRY_CELL = { verticalAlign: 'top', overflowWrap: 'break-word' } as const;
-const SHORT_CELL = { ...ENTRY_CELL, whiteSpace: 'nowrap' } as const;
+// Short columns keep their words whole. Actors, targets and details may hold e-mails and ids
+// with no space to break at: only those may break inside a word, each keeping room for words.
+const SHORT_CELL = { verticalAlign: 'top', whiteSpace: 'nowrap' } as const;
 const ID_CELL = { verticalAlign: 'top', overflowWrap: 'anywhere', minWidth: 120 } as const;
+const ENTRY_CELL = ID_CELL;
 const WIDE_CELL = { ...ID_CELL, minWidth: 220 } as const;
 const cellStyle = ({ column: { id } }: { column: { id: string } }) =>
   id === 'at' || id === 'action'
