@@ -8,7 +8,7 @@
 # that order, each with commit=true, and waits for each import to end. A file committed
 # before (same SHA-256) is skipped. The first file that is not committed stops the run
 # (exit 1); its rejected rows are saved as CSV in report-dir (default: the folder). Needs
-# curl, jq and sha256sum, and a script token with imports:write and imports:read.
+# curl and jq, and a script token with imports:write and imports:read.
 set -euo pipefail
 
 dir=${1:?usage: nightly-import.sh FOLDER [REPORT_DIR]}
@@ -30,15 +30,13 @@ for kind in catalogue offerings students records; do
     echo "nightly import: $file is missing; nothing after it was imported." >&2
     exit 1
   fi
-  sha=$(sha256sum "$file" | cut -d' ' -f1)
-  committed_before=$(api "$url/api/imports" | jq -r --arg sha "$sha" \
-    '[.[] | select(.fileSha256 == $sha and .status == "committed")] | length')
-  if [ "$committed_before" != 0 ]; then
-    echo "nightly import: $kind is unchanged since its last import; skipped"
-    continue
-  fi
   if ! answer=$(api -F "kind=$kind" -F "commit=true" -F "file=@$file;type=text/csv" \
     "$url/api/imports"); then
+    # The server refuses a file it has committed before (409, naming that import).
+    if jq -e '.details.earlierImportId' <<<"$answer" >/dev/null 2>&1; then
+      echo "nightly import: $kind is unchanged since its last import; skipped"
+      continue
+    fi
     echo "nightly import: $kind was refused: $(jq -r '.message // empty' <<<"$answer" 2>/dev/null)" >&2
     echo "nightly import: the files after $kind were not imported." >&2
     exit 1

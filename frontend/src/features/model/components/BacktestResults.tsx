@@ -137,7 +137,8 @@ export function BacktestResults({ evaluation, onUse }: BacktestResultsProps) {
                 row.configuration !== null ? evaluation.configurations[row.configuration] : null;
               return (
                 <TableRow key={`${row.kind}-${row.name}`} data-testid={`result-${row.name}`}>
-                  <TableCell>
+                  {/* Names and settings may be long single words; they wrap, not the table. */}
+                  <TableCell sx={{ overflowWrap: 'anywhere', minWidth: 160 }}>
                     <Typography variant="body2" component="span" sx={{ fontWeight: 600 }}>
                       {row.name}
                     </Typography>

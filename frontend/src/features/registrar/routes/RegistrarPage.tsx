@@ -46,6 +46,10 @@ const REGISTRAR_PAGES = [
     page: PAGES.advising,
     what: 'Look a student up by number to read their history and next term’s estimates.',
   },
+  {
+    page: PAGES.scriptTokens,
+    what: 'Tokens that let the student information system’s scripts import term data overnight.',
+  },
 ] as const;
 
 function RegistrarPages() {
