@@ -66,7 +66,10 @@ describe('sign-in and each role’s landing page', () => {
     await freshPage();
     await signIn(page, 'registrar@halden.example');
     await page.waitForURL('**/registrar');
-    await page.getByRole('link', { name: 'Script tokens' }).click();
+    await page
+      .getByRole('navigation', { name: 'Main' })
+      .getByRole('link', { name: 'Script tokens' })
+      .click();
     await page.getByRole('heading', { level: 1, name: 'Script tokens' }).waitFor();
     await expectAccessible(page);
     await page.getByRole('textbox', { name: 'Name' }).fill('Accessibility check');

@@ -25,8 +25,9 @@ export function roundSignificant(x: number, digits: number): number {
   }
   let e = 1;
   while (e < 300 && m < 1 / POW10[e]) e++;
-  // Far below any similarity's resolution: nothing to round.
-  if (e === 300) return x;
+  // Far below any similarity's resolution, where the scale would pass the largest double:
+  // nothing to round.
+  if (digits - 1 + e > 300) return x;
   const sc = POW10[digits - 1 + e];
   return Math.round(x * sc) / sc;
 }

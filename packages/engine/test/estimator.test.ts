@@ -357,6 +357,9 @@ describe('ranking on rounded similarities', () => {
     expect(roundSignificant(0.1 + 0.2, 12)).toBe(0.3);
     expect(roundSignificant(-0.999999999999999, 12)).toBe(-1);
     expect(roundSignificant(0.000123456789012345, 12)).toBeCloseTo(0.000123456789012, 18);
+    // Near the smallest doubles the scale would overflow; such values are kept as they are.
+    expect(roundSignificant(-1e-299, 12)).toBe(-1e-299);
+    expect(roundSignificant(5e-324, 12)).toBe(5e-324);
     fc.assert(
       fc.property(fc.double({ min: -1, max: 1, noNaN: true }), (x) => {
         const r = roundSignificant(x, 12);

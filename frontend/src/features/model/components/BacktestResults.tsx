@@ -110,14 +110,19 @@ export function BacktestResults({ evaluation, onUse }: BacktestResultsProps) {
       ) : null}
 
       <TableContainer component={Paper} variant="outlined" sx={{ mb: 1 }}>
+        {/* A fixed layout shares the box's width, so long names wrap instead of cutting it off. */}
         <Table
           size="small"
-          sx={{ '& td, & th': { px: 1 } }}
+          sx={{
+            tableLayout: 'fixed',
+            width: '100%',
+            '& td, & th': { px: 1, overflowWrap: 'anywhere' },
+          }}
           aria-label={`Backtest results, ${SIGNAL_WORDS[signal]}`}
         >
           <TableHead>
             <TableRow>
-              <TableCell>Configuration or baseline</TableCell>
+              <TableCell sx={{ width: '28%' }}>Configuration or baseline</TableCell>
               <TableCell align="right">MAE</TableCell>
               <TableCell align="right">RMSE</TableCell>
               <TableCell align="right">Coverage</TableCell>
@@ -137,8 +142,7 @@ export function BacktestResults({ evaluation, onUse }: BacktestResultsProps) {
                 row.configuration !== null ? evaluation.configurations[row.configuration] : null;
               return (
                 <TableRow key={`${row.kind}-${row.name}`} data-testid={`result-${row.name}`}>
-                  {/* Names and settings may be long single words; they wrap, not the table. */}
-                  <TableCell sx={{ overflowWrap: 'anywhere', minWidth: 160 }}>
+                  <TableCell>
                     <Typography variant="body2" component="span" sx={{ fontWeight: 600 }}>
                       {row.name}
                     </Typography>
