@@ -95,7 +95,7 @@ const PROGRESS_INTERVAL_MS = 500;
 const LOADED_SHARE = 0.1;
 
 /**
- * Backtests (issue 7): the engine's time-holdout evaluation of up to eight
+ * Backtests: the engine's time-holdout evaluation of up to eight
  * configurations on the current term data, as a background job in a worker
  * thread. Reads the term data as the model does and never touches the model in force.
  */

@@ -64,7 +64,7 @@ function toVersion(row: VersionRow): ModelSettingsVersion {
 }
 
 /**
- * The model settings as numbered versions (issue 7): the latest version is in
+ * The model settings as numbered versions: the latest version is in
  * force; a change or a restore appends a version, writes the audit trail in the
  * same transaction and then tells subscribers.
  */
