@@ -16,7 +16,8 @@ import Download from '@mui/icons-material/Download';
 import type { BacktestResponse } from '@kinpath/contracts';
 import { fixed, percent } from '../format';
 
-const num = { fontVariantNumeric: 'tabular-nums', whiteSpace: 'nowrap' } as const;
+// Figures in tables are tabular already (the theme); these keep each figure on one line.
+const num = { whiteSpace: 'nowrap' } as const;
 
 const FORECASTS = [
   { key: 'modelWape', label: 'Model', color: '#1F5C58' },
@@ -185,7 +186,7 @@ export function BacktestSection({
         <Button variant="outlined" startIcon={<Download />} onClick={() => saveCsv(backtest)}>
           Export backtest CSV
         </Button>
-        <Typography variant="body2" sx={num}>
+        <Typography variant="body2" className="kp-figures" sx={num}>
           Over these electives: model WAPE {percent(backtest.modelWape, 1)}, naive{' '}
           {percent(backtest.naiveWape, 1)}, coverage {percent(backtest.coverage, 0)}.
         </Typography>

@@ -48,7 +48,8 @@ const columns = [
 ];
 
 // An interval such as "12.0 – 18.5" stays on one line.
-const FIGURES = { fontVariantNumeric: 'tabular-nums', whiteSpace: 'nowrap' } as const;
+// Tables are tabular already (the theme); each figure stays on one line.
+const FIGURES = { whiteSpace: 'nowrap' } as const;
 
 /** The demand outlook per elective: seats, expected demand with its interval, utilisation, flag. */
 export function OutlookTable({ rows, caption }: { rows: CourseForecast[]; caption: string }) {

@@ -67,7 +67,6 @@ export function departmentTotals(rows: readonly CourseForecast[]) {
 function DepartmentTotals({ rows }: { rows: readonly CourseForecast[] }) {
   const totals = departmentTotals(rows);
   if (totals.length === 0) return null;
-  const num = { fontVariantNumeric: 'tabular-nums' } as const;
   return (
     <TableContainer component={Paper} variant="outlined" sx={{ maxWidth: 720 }}>
       <Table size="small">
@@ -95,18 +94,10 @@ function DepartmentTotals({ rows }: { rows: readonly CourseForecast[] }) {
               <TableCell component="th" scope="row">
                 {t.department}
               </TableCell>
-              <TableCell align="right" sx={num}>
-                {t.electives}
-              </TableCell>
-              <TableCell align="right" sx={num}>
-                {t.seats}
-              </TableCell>
-              <TableCell align="right" sx={num}>
-                {fixed(t.expected)}
-              </TableCell>
-              <TableCell align="right" sx={num}>
-                {percent(t.utilisation, 1)}
-              </TableCell>
+              <TableCell align="right">{t.electives}</TableCell>
+              <TableCell align="right">{t.seats}</TableCell>
+              <TableCell align="right">{fixed(t.expected)}</TableCell>
+              <TableCell align="right">{percent(t.utilisation, 1)}</TableCell>
             </TableRow>
           ))}
         </TableBody>
